@@ -1,0 +1,40 @@
+# One entry for each everyday job. `make demo` and `make test` are the two a newcomer needs;
+# both create the virtual environment in .venv and install the project into it first.
+VENV ?= .venv
+BIN := $(VENV)/bin
+HOST ?= 127.0.0.1
+PORT ?= 8000
+
+.PHONY: install demo serve test lint fix bench clean
+
+$(BIN)/.installed: pyproject.toml
+	python3 -m venv $(VENV)
+	$(BIN)/pip install --quiet --upgrade pip
+	$(BIN)/pip install --quiet --editable '.[dev]'
+	touch $@
+
+install: $(BIN)/.installed
+
+demo: install
+	$(BIN)/traptally serve --demo --host $(HOST) --port $(PORT)
+
+serve: install
+	$(BIN)/traptally serve --host $(HOST) --port $(PORT)
+
+lint: install
+	$(BIN)/ruff check .
+	$(BIN)/ruff format --check .
+	$(BIN)/mypy service
+
+test: lint
+	$(BIN)/pytest
+
+fix: install
+	$(BIN)/ruff check --fix .
+	$(BIN)/ruff format .
+
+bench: install
+	$(BIN)/python bench/run.py
+
+clean:
+	rm -rf $(VENV) .pytest_cache .mypy_cache .ruff_cache .coverage

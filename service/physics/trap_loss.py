@@ -1,0 +1,224 @@
+"""One trap's losses: live steam through its orifice, and its condensate where it goes.
+
+Live steam lost = orifice capacity (Napier or the isentropic nozzle, at Cd) times the
+loss factor of the trap's condition. Its low and high ends come from the ends of the
+Cd range and of the loss factor's range, so every figure carries its uncertainty.
+
+Condensate (the load the trap drains, if known):
+
+- closed return: flash and condensate are recovered, nothing is lost;
+- vented receiver: the flash fraction boils off to atmosphere and is lost;
+- drain: all of it is lost, water, heat and treatment.
+
+Source: shared/DOMAIN.md "Steam through a failed-open trap" and "Flash steam".
+"""
+
+from dataclasses import dataclass
+from enum import StrEnum
+
+from service.physics import steam_tables
+from service.physics.annual import Economics, YearlyLoss, no_yearly_loss, yearly_loss
+from service.physics.conditions import (
+    DEFAULT_LOSS_FACTORS,
+    RISK_NOTES,
+    TrapCondition,
+    discharges_condensate,
+    wastes_live_steam,
+)
+from service.physics.flash import flash_of_condensate
+from service.physics.orifice import FlowMethod, FlowRegime, saturated_steam_discharge
+from service.physics.spread import Spread
+
+# Cd of a trap orifice. 0.7 lies between the sharp-edged orifice's 0.6 (one published
+# engineering paper's basis, W = 24.24 p D^2) and the 0.73 the US DOE Steam Tip Sheet
+# "Inspect and Repair Steam Traps" table implies; the range spans both. Common practice.
+DEFAULT_DISCHARGE_COEFFICIENT = Spread(0.70, 0.60, 0.80)
+
+
+class CondensateDestination(StrEnum):
+    CLOSED_RETURN = "closed_return"
+    VENTED_RECEIVER = "vented_receiver"
+    DRAIN = "drain"
+
+
+@dataclass(frozen=True, slots=True)
+class TrapService:
+    """What a trap does and where, as the loss calculation needs it."""
+
+    inlet_pressure_kpa_abs: float
+    return_pressure_kpa_abs: float
+    orifice_diameter_mm: float
+    condition: TrapCondition
+    hours_per_year: float
+    condensate_load_kg_h: float = 0.0
+    destination: CondensateDestination = CondensateDestination.CLOSED_RETURN
+    discharge_coefficient: Spread = DEFAULT_DISCHARGE_COEFFICIENT
+    loss_factor: Spread | None = None  # None: the condition's default
+
+
+@dataclass(frozen=True, slots=True)
+class CondensateLoss:
+    """What a trap's condensate loses where it goes: flash vented, or all of it drained."""
+
+    flash_fraction: float
+    flash_vented_kg_h: float
+    flash_vented: YearlyLoss
+    condensate_to_drain_kg_h: float
+    condensate_to_drain: YearlyLoss
+
+    @property
+    def total(self) -> YearlyLoss:
+        """Flash vented and condensate drained together."""
+        return self.flash_vented + self.condensate_to_drain
+
+
+@dataclass(frozen=True, slots=True)
+class TrapLoss:
+    """What one trap wastes in a year, each live-steam figure with its range."""
+
+    condition: TrapCondition
+    flow_regime: FlowRegime | None  # None where condensate cannot flow (p2 >= p1)
+    method: FlowMethod | None
+    orifice_capacity_kg_h: float  # dry steam at the typical Cd, as if fully open
+    loss_factor: Spread
+    steam_loss_kg_h: Spread
+    live_steam: YearlyLoss
+    live_steam_low: YearlyLoss
+    live_steam_high: YearlyLoss
+    condensate: CondensateLoss
+    risk: str | None  # why a plugged or flooded trap matters, else None
+
+    @property
+    def total(self) -> YearlyLoss:
+        return self.live_steam + self.condensate.total
+
+    @property
+    def total_low(self) -> YearlyLoss:
+        return self.live_steam_low + self.condensate.total
+
+    @property
+    def total_high(self) -> YearlyLoss:
+        return self.live_steam_high + self.condensate.total
+
+
+def loss_factor_for(condition: TrapCondition, override: float | None = None) -> Spread:
+    """The condition's loss factor, or a technician's override widened into its range.
+
+    >>> loss_factor_for(TrapCondition.LEAKING)
+    Spread(typical=0.25, low=0.1, high=0.4)
+    >>> loss_factor_for(TrapCondition.LEAKING, 0.5)
+    Spread(typical=0.5, low=0.1, high=0.5)
+    """
+    default = DEFAULT_LOSS_FACTORS[condition]
+    if override is None:
+        return default
+    if not wastes_live_steam(condition):
+        raise ValueError(
+            f"a loss factor applies only to a trap that wastes live steam, not to '{condition}'"
+        )
+    if not 0.0 <= override <= 1.0:
+        raise ValueError(f"loss factor {override:g} must lie from 0 to 1")
+    return default.widened_to(override)
+
+
+def trap_loss(service: TrapService, economics: Economics) -> TrapLoss:
+    """A year of one trap's losses in steam, heat, fuel, money and CO2.
+
+    Pressures in kPa abs; the return must be below the inlet wherever the trap
+    discharges (every condition but plugged and out of service).
+
+    >>> loss = trap_loss(TrapService(1101.325, 101.325, 3.0, TrapCondition.BLOW_THROUGH, 8000),
+    ...     Economics(steam_cost_per_tonne=30.0))
+    >>> round(loss.steam_loss_kg_h.typical, 1), loss.method.value, round(loss.live_steam.cost)
+    (28.6, 'napier', 6859)
+    """
+    condition = service.condition
+    loss_factor = service.loss_factor or DEFAULT_LOSS_FACTORS[condition]
+    inlet = steam_tables.saturation_at_pressure(service.inlet_pressure_kpa_abs)
+    steam_tables.require_saturation_pressure(service.return_pressure_kpa_abs)
+    can_flow = service.return_pressure_kpa_abs < service.inlet_pressure_kpa_abs
+    if discharges_condensate(condition) and not can_flow:
+        raise ValueError(
+            "the return pressure must be below the inlet pressure for the trap to discharge"
+        )
+    regime: FlowRegime | None = None
+    method: FlowMethod | None = None
+    capacity = Spread.exact(0.0)
+    if can_flow:
+        # Flow is proportional to Cd, so one evaluation at Cd = 1 serves the whole range.
+        fully_open = saturated_steam_discharge(
+            service.orifice_diameter_mm,
+            service.inlet_pressure_kpa_abs,
+            service.return_pressure_kpa_abs,
+            discharge_coefficient=1.0,
+        )
+        regime, method = fully_open.regime, fully_open.method
+        capacity = Spread.exact(fully_open.flow_kg_h).scaled(service.discharge_coefficient)
+    steam_loss = capacity.scaled(loss_factor)
+
+    def live(mass_kg_h: float) -> YearlyLoss:
+        return yearly_loss(
+            mass_kg_h=mass_kg_h,
+            lost_enthalpy_kj_kg=inlet.hg_kj_kg,
+            steam_enthalpy_kj_kg=inlet.hg_kj_kg,
+            hours_per_year=service.hours_per_year,
+            economics=economics,
+        )
+
+    return TrapLoss(
+        condition=condition,
+        flow_regime=regime,
+        method=method,
+        orifice_capacity_kg_h=capacity.typical,
+        loss_factor=loss_factor,
+        steam_loss_kg_h=steam_loss,
+        live_steam=live(steam_loss.typical),
+        live_steam_low=live(steam_loss.low),
+        live_steam_high=live(steam_loss.high),
+        condensate=condensate_loss(service, economics),
+        risk=RISK_NOTES.get(condition),
+    )
+
+
+def condensate_loss(service: TrapService, economics: Economics) -> CondensateLoss:
+    """A year of what the trap's condensate load loses at its destination.
+
+    Flash vented carries hg at the return pressure; condensate drained carries its
+    inlet enthalpy; both are replaced by makeup water. Nothing is lost to a closed
+    return, or where the trap passes no condensate or its load is unknown (zero).
+    """
+    nothing = no_yearly_loss(economics)
+    discharging = (
+        discharges_condensate(service.condition)
+        and service.condensate_load_kg_h > 0.0
+        and service.return_pressure_kpa_abs < service.inlet_pressure_kpa_abs
+    )
+    if not discharging:
+        return CondensateLoss(0.0, 0.0, nothing, 0.0, nothing)
+    flash = flash_of_condensate(service.inlet_pressure_kpa_abs, service.return_pressure_kpa_abs)
+    steam_enthalpy = steam_tables.saturation_at_pressure(service.inlet_pressure_kpa_abs).hg_kj_kg
+
+    def lost(mass_kg_h: float, enthalpy_kj_kg: float) -> YearlyLoss:
+        return yearly_loss(
+            mass_kg_h=mass_kg_h,
+            lost_enthalpy_kj_kg=enthalpy_kj_kg,
+            steam_enthalpy_kj_kg=steam_enthalpy,
+            hours_per_year=service.hours_per_year,
+            economics=economics,
+        )
+
+    if service.destination is CondensateDestination.VENTED_RECEIVER:
+        flash_kg_h = service.condensate_load_kg_h * flash.flash_fraction
+        return CondensateLoss(
+            flash.flash_fraction, flash_kg_h, lost(flash_kg_h, flash.return_hg_kj_kg), 0.0, nothing
+        )
+    if service.destination is CondensateDestination.DRAIN:
+        drain_kg_h = service.condensate_load_kg_h
+        return CondensateLoss(
+            flash.flash_fraction,
+            0.0,
+            nothing,
+            drain_kg_h,
+            lost(drain_kg_h, flash.inlet_enthalpy_kj_kg),
+        )
+    return CondensateLoss(flash.flash_fraction, 0.0, nothing, 0.0, nothing)

@@ -1,0 +1,70 @@
+"""Bad input answers 422 naming the field, never 500.
+
+The calculation core raises ValueError with a sentence a technician can read; here
+that sentence is attached to the request field it concerns, in the same shape
+FastAPI uses for its own validation errors:
+`{"detail": [{"loc": ["body", "field"], "msg": "...", "type": "value_error", "input": ...}]}`.
+"""
+
+import math
+from collections.abc import Iterator
+from contextlib import contextmanager
+from typing import Any
+
+from fastapi import Request
+from fastapi.exceptions import RequestValidationError
+from fastapi.responses import JSONResponse
+
+_PYDANTIC_PREFIX = "Value error, "
+
+
+@contextmanager
+def reported_against(*location: str, typed: Any = None) -> Iterator[None]:
+    """Turn a ValueError raised inside the block into a 422 on the field at `location`."""
+    try:
+        yield
+    except ValueError as error:
+        raise RequestValidationError(
+            [{"type": "value_error", "loc": location, "msg": str(error), "input": typed}]
+        ) from error
+
+
+def _as_json(value: Any) -> Any:
+    """What was typed, in a form JSON can carry (NaN and infinity as text)."""
+    if isinstance(value, float) and not math.isfinite(value):
+        return str(value)
+    if isinstance(value, str | int | float | bool) or value is None:
+        return value
+    if isinstance(value, dict):
+        return {str(key): _as_json(item) for key, item in value.items()}
+    if isinstance(value, list | tuple):
+        return [_as_json(item) for item in value]
+    return str(value)
+
+
+def problem(location: list[str | int], message: str, kind: str, typed: Any) -> dict[str, Any]:
+    """One entry of a 422's `detail`."""
+    return {
+        "type": kind,
+        "loc": location,
+        "msg": message.removeprefix(_PYDANTIC_PREFIX),
+        "input": _as_json(typed),
+    }
+
+
+async def validation_error_as_422(request: Request, error: Exception) -> JSONResponse:
+    """FastAPI's validation errors, with readable messages and the typed value kept."""
+    assert isinstance(error, RequestValidationError)
+    detail = [
+        problem(list(entry["loc"]), entry["msg"], entry["type"], entry.get("input"))
+        for entry in error.errors()
+    ]
+    return JSONResponse(status_code=422, content={"detail": detail})
+
+
+async def value_error_as_422(request: Request, error: Exception) -> JSONResponse:
+    """A ValueError no route attached to a field still answers 422, naming the request."""
+    return JSONResponse(
+        status_code=422,
+        content={"detail": [problem(["body"], str(error), "value_error", None)]},
+    )

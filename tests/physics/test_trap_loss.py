@@ -1,0 +1,173 @@
+"""One trap's yearly losses, by condition and by where its condensate goes."""
+
+import pytest
+
+from service.physics.annual import Economics
+from service.physics.conditions import (
+    DEFAULT_LOSS_FACTORS,
+    TrapCondition,
+    discharges_condensate,
+    is_failed,
+    is_flooding_risk,
+    wastes_live_steam,
+)
+from service.physics.flash import flash_of_condensate
+from service.physics.orifice import FlowMethod, FlowRegime, napier_steam_flow_kg_h
+from service.physics.spread import Spread
+from service.physics.trap_loss import (
+    CondensateDestination,
+    TrapService,
+    loss_factor_for,
+    trap_loss,
+)
+
+PRICES = Economics(steam_cost_per_tonne=30.0)
+INLET, RETURN = 1101.325, 101.325
+
+
+def _trap(**overrides: object) -> TrapService:
+    fields: dict[str, object] = {
+        "inlet_pressure_kpa_abs": INLET,
+        "return_pressure_kpa_abs": RETURN,
+        "orifice_diameter_mm": 4.0,
+        "condition": TrapCondition.BLOW_THROUGH,
+        "hours_per_year": 8000.0,
+    }
+    fields.update(overrides)
+    return TrapService(**fields)  # type: ignore[arg-type]
+
+
+def test_blow_through_loses_the_orifice_capacity_with_its_range() -> None:
+    loss = trap_loss(_trap(), PRICES)
+    napier = napier_steam_flow_kg_h(4.0, INLET, 1.0)
+    assert loss.method is FlowMethod.NAPIER
+    assert loss.flow_regime is FlowRegime.CHOKED
+    assert loss.steam_loss_kg_h == Spread(0.7 * napier * 1.0, 0.6 * napier * 0.7, 0.8 * napier)
+    assert loss.live_steam.mass_t == pytest.approx(loss.steam_loss_kg_h.typical * 8.0)
+    assert loss.live_steam_low.cost < loss.live_steam.cost < loss.live_steam_high.cost  # type: ignore[operator]
+    assert loss.risk is None
+
+
+@pytest.mark.parametrize("condition", list(TrapCondition))
+def test_each_condition_loses_its_share_of_the_orifice(condition: TrapCondition) -> None:
+    loss = trap_loss(_trap(condition=condition), PRICES)
+    expected = loss.orifice_capacity_kg_h * DEFAULT_LOSS_FACTORS[condition].typical
+    assert loss.steam_loss_kg_h.typical == pytest.approx(expected)
+    assert (loss.steam_loss_kg_h.typical > 0.0) == wastes_live_steam(condition)
+
+
+@pytest.mark.parametrize("condition", [TrapCondition.PLUGGED, TrapCondition.FLOODED])
+def test_plugged_and_flooded_lose_no_steam_but_are_risks(condition: TrapCondition) -> None:
+    loss = trap_loss(_trap(condition=condition), PRICES)
+    assert loss.live_steam.mass_t == 0.0
+    assert loss.risk is not None
+    assert "water hammer" in loss.risk
+    assert is_flooding_risk(condition)
+    assert is_failed(condition)
+
+
+def test_working_trap_to_a_closed_return_loses_nothing() -> None:
+    loss = trap_loss(_trap(condition=TrapCondition.WORKING, condensate_load_kg_h=100.0), PRICES)
+    assert loss.total.mass_t == 0.0
+    assert loss.total.cost == 0.0
+    assert loss.condensate.flash_fraction > 0.0
+
+
+def test_working_trap_to_a_vented_receiver_loses_its_flash() -> None:
+    loss = trap_loss(
+        _trap(
+            condition=TrapCondition.WORKING,
+            condensate_load_kg_h=100.0,
+            destination=CondensateDestination.VENTED_RECEIVER,
+        ),
+        PRICES,
+    )
+    flash = flash_of_condensate(INLET, RETURN)
+    assert loss.condensate.flash_vented_kg_h == pytest.approx(100.0 * flash.flash_fraction)
+    assert loss.condensate.condensate_to_drain_kg_h == 0.0
+    assert loss.condensate.flash_vented.mass_t == pytest.approx(
+        loss.condensate.flash_vented_kg_h * 8.0
+    )
+    assert loss.total.cost == loss.condensate.flash_vented.cost
+
+
+def test_working_trap_to_drain_loses_all_its_water_and_heat() -> None:
+    loss = trap_loss(
+        _trap(
+            condition=TrapCondition.WORKING,
+            condensate_load_kg_h=100.0,
+            destination=CondensateDestination.DRAIN,
+        ),
+        PRICES,
+    )
+    assert loss.condensate.condensate_to_drain_kg_h == 100.0
+    assert loss.condensate.condensate_to_drain.mass_t == pytest.approx(800.0)
+    assert loss.condensate.flash_vented.mass_t == 0.0
+    # Hot water carries less heat than steam: a tonne drained costs less than a tonne blown.
+    assert loss.condensate.condensate_to_drain.cost < 800.0 * 30.0  # type: ignore[operator]
+
+
+def test_a_plugged_trap_passes_no_condensate() -> None:
+    loss = trap_loss(
+        _trap(
+            condition=TrapCondition.PLUGGED,
+            condensate_load_kg_h=100.0,
+            destination=CondensateDestination.DRAIN,
+        ),
+        PRICES,
+    )
+    assert not discharges_condensate(TrapCondition.PLUGGED)
+    assert loss.total.mass_t == 0.0
+
+
+def test_totals_add_live_steam_and_condensate_and_keep_the_range() -> None:
+    loss = trap_loss(
+        _trap(condensate_load_kg_h=50.0, destination=CondensateDestination.VENTED_RECEIVER),
+        PRICES,
+    )
+    assert loss.total.cost == pytest.approx(
+        loss.live_steam.cost + loss.condensate.flash_vented.cost  # type: ignore[operator]
+    )
+    assert loss.total_low.cost < loss.total.cost < loss.total_high.cost  # type: ignore[operator]
+
+
+def test_a_technicians_loss_factor_widens_the_range() -> None:
+    assert loss_factor_for(TrapCondition.LEAKING, 0.6) == Spread(0.6, 0.1, 0.6)
+    loss = trap_loss(
+        _trap(condition=TrapCondition.LEAKING, loss_factor=Spread(0.6, 0.1, 0.6)), PRICES
+    )
+    assert loss.steam_loss_kg_h.typical == pytest.approx(0.6 * loss.orifice_capacity_kg_h)
+
+
+@pytest.mark.parametrize(
+    ("condition", "factor", "message"),
+    [
+        (TrapCondition.WORKING, 0.2, "applies only"),
+        (TrapCondition.LEAKING, 1.5, "from 0 to 1"),
+        (TrapCondition.LEAKING, -0.1, "from 0 to 1"),
+    ],
+)
+def test_a_loss_factor_that_does_not_fit_is_refused(
+    condition: TrapCondition, factor: float, message: str
+) -> None:
+    with pytest.raises(ValueError, match=message):
+        loss_factor_for(condition, factor)
+
+
+def test_a_discharging_trap_needs_a_lower_return_pressure() -> None:
+    with pytest.raises(ValueError, match="below the inlet"):
+        trap_loss(_trap(return_pressure_kpa_abs=INLET), PRICES)
+
+
+def test_a_plugged_trap_against_a_high_return_is_still_reported() -> None:
+    loss = trap_loss(
+        _trap(condition=TrapCondition.PLUGGED, return_pressure_kpa_abs=INLET + 100.0), PRICES
+    )
+    assert loss.flow_regime is None
+    assert loss.method is None
+    assert loss.total.mass_t == 0.0
+
+
+def test_a_spread_must_hold_its_typical_value() -> None:
+    with pytest.raises(ValueError, match="must contain"):
+        Spread(0.9, 0.6, 0.8)

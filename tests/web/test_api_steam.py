@@ -1,0 +1,144 @@
+"""The steam endpoints: saturation and state, and their 422 answers."""
+
+import pytest
+from fastapi.testclient import TestClient
+
+from service.physics import steam_tables
+
+
+def test_health_answers_ok_with_the_version(client: TestClient) -> None:
+    answer = client.get("/api/v1/health")
+    assert answer.status_code == 200
+    assert answer.json()["status"] == "ok"
+    assert answer.json()["version"]
+
+
+def test_saturation_by_gauge_pressure_uses_the_given_atmosphere(client: TestClient) -> None:
+    answer = client.get(
+        "/api/v1/steam/saturation",
+        params={"pressure_kpa_g": 900.0, "atmospheric_pressure_kpa": 100.0},
+    )
+    assert answer.status_code == 200
+    body = answer.json()
+    expected = steam_tables.saturation_at_pressure(1000.0)
+    assert body["pressure_kpa_abs"] == 1000.0
+    assert body["hf_kj_kg"] == expected.hf_kj_kg
+    assert body["hfg_kj_kg"] == pytest.approx(body["hg_kj_kg"] - body["hf_kj_kg"])
+    assert set(body) >= {"temperature_c", "vf_m3_kg", "vg_m3_kg"}
+
+
+def test_saturation_by_temperature_matches_iapws_table_35(client: TestClient) -> None:
+    # IAPWS R7-97(2012), Table 35: psat(500 K) = 2.63889776 MPa.
+    answer = client.get("/api/v1/steam/saturation", params={"temperature_c": 500.0 - 273.15})
+    assert answer.json()["pressure_kpa_abs"] == pytest.approx(2638.89776, abs=5e-6)
+
+
+@pytest.mark.parametrize(
+    ("params", "field"),
+    [
+        ({"pressure_kpa_g": "ten"}, "pressure_kpa_g"),
+        ({"pressure_kpa_g": "nan"}, "pressure_kpa_g"),
+        ({"pressure_kpa_g": "inf"}, "pressure_kpa_g"),
+        ({"pressure_kpa_g": 22000.0}, "pressure_kpa_g"),
+        ({"pressure_kpa_abs": -5.0}, "pressure_kpa_abs"),
+        ({"pressure_kpa_abs": 0.1}, "pressure_kpa_abs"),
+        ({"temperature_c": 400.0}, "temperature_c"),
+        ({"pressure_kpa_g": 1.0, "atmospheric_pressure_kpa": 20.0}, "atmospheric_pressure_kpa"),
+    ],
+)
+def test_bad_saturation_queries_answer_422_naming_the_field(
+    client: TestClient, params: dict[str, object], field: str
+) -> None:
+    answer = client.get("/api/v1/steam/saturation", params=params)  # type: ignore[arg-type]
+    assert answer.status_code == 422
+    assert field in [entry["loc"][-1] for entry in answer.json()["detail"]]
+
+
+@pytest.mark.parametrize("params", [{}, {"pressure_kpa_g": 1.0, "temperature_c": 100.0}])
+def test_saturation_needs_exactly_one_input(client: TestClient, params: dict[str, object]) -> None:
+    answer = client.get("/api/v1/steam/saturation", params=params)  # type: ignore[arg-type]
+    assert answer.status_code == 422
+    assert "exactly one of" in answer.json()["detail"][0]["msg"]
+
+
+@pytest.mark.parametrize(
+    ("body", "phase", "quality"),
+    [
+        ({"pressure_kpa_abs": 1000.0, "quality": 0.5}, "wet_steam", 0.5),
+        ({"pressure_kpa_g": 0.0, "quality": 0.0}, "saturated_liquid", 0.0),
+        ({"pressure_kpa_abs": 1000.0, "temperature_c": 50.0}, "subcooled_liquid", None),
+        ({"pressure_kpa_abs": 1000.0, "temperature_c": 300.0}, "superheated_steam", None),
+        (
+            {"pressure_kpa_abs": 1000.0, "enthalpy_kj_kg": 2777.1195376846617},
+            "saturated_vapour",
+            1.0,
+        ),
+    ],
+)
+def test_state_reports_phase_and_quality(
+    client: TestClient, body: dict[str, float], phase: str, quality: float | None
+) -> None:
+    answer = client.post("/api/v1/steam/state", json=body)
+    assert answer.status_code == 200
+    assert answer.json()["phase"] == phase
+    assert answer.json()["quality"] == quality
+
+
+def test_subcooled_state_reports_the_textbook_enthalpy_beside_if97(client: TestClient) -> None:
+    body = client.post(
+        "/api/v1/steam/state", json={"pressure_kpa_abs": 3000.0, "temperature_c": 26.85}
+    ).json()
+    # IAPWS R7-97(2012), Table 5: h(3 MPa, 300 K) = 115.331273 kJ/kg.
+    assert body["enthalpy_kj_kg"] == pytest.approx(115.331273, abs=5e-7)
+    assert body["textbook_enthalpy_kj_kg"] == pytest.approx(112.5, abs=0.5)
+
+
+@pytest.mark.parametrize(
+    ("body", "field"),
+    [
+        ({"pressure_kpa_abs": 1000.0}, None),
+        ({"pressure_kpa_abs": 1000.0, "quality": 0.5, "temperature_c": 20.0}, None),
+        ({"pressure_kpa_abs": 1000.0, "pressure_kpa_g": 900.0, "quality": 0.5}, None),
+        ({"quality": 0.5}, None),
+        ({"pressure_kpa_abs": 1000.0, "quality": 1.5}, "quality"),
+        ({"pressure_kpa_abs": -1.0, "quality": 0.5}, "pressure_kpa_abs"),
+        ({"pressure_kpa_abs": 1000.0, "enthalpy_kj_kg": 99999.0}, "enthalpy_kj_kg"),
+        ({"pressure_kpa_abs": 1000.0, "temperature_c": 2000.0}, "temperature_c"),
+        ({"pressure_kpa_abs": 1000.0, "quality": 0.5, "colour": "red"}, "colour"),
+    ],
+)
+def test_bad_state_requests_answer_422(
+    client: TestClient, body: dict[str, object], field: str | None
+) -> None:
+    answer = client.post("/api/v1/steam/state", json=body)
+    assert answer.status_code == 422
+    detail = answer.json()["detail"]
+    if field is None:
+        assert "exactly one of" in detail[0]["msg"]
+    else:
+        assert field in [entry["loc"][-1] for entry in detail]
+
+
+def test_state_at_the_saturation_temperature_is_refused_with_a_reason(client: TestClient) -> None:
+    saturation = steam_tables.saturation_at_pressure(1000.0)
+    answer = client.post(
+        "/api/v1/steam/state",
+        json={"pressure_kpa_abs": 1000.0, "temperature_c": saturation.temperature_c},
+    )
+    assert answer.status_code == 422
+    assert answer.json()["detail"][0]["loc"] == ["body", "temperature_c"]
+    assert "give quality or enthalpy" in answer.json()["detail"][0]["msg"]
+
+
+def test_a_value_error_no_route_caught_still_answers_422() -> None:
+    from service.web.app import create_app
+
+    app = create_app()
+
+    @app.get("/boom")
+    def boom() -> None:
+        raise ValueError("pressure out of range")
+
+    answer = TestClient(app).get("/boom")
+    assert answer.status_code == 422
+    assert answer.json()["detail"][0]["msg"] == "pressure out of range"
