@@ -3,7 +3,7 @@
 from typing import Annotated, Any, Self
 
 from fastapi import APIRouter
-from pydantic import BaseModel, Field, ValidationInfo, field_validator, model_validator
+from pydantic import BaseModel, ConfigDict, Field, ValidationInfo, field_validator, model_validator
 
 from service.physics.annual import (
     DEFAULT_BOILER_EFFICIENCY,
@@ -57,6 +57,8 @@ class FlashIn(SiteInput):
 
 
 class FlashOut(BaseModel):
+    model_config = ConfigDict(from_attributes=True)
+
     flash_fraction: float = Field(description="kg of flash steam per kg of condensate")
     inlet_enthalpy_kj_kg: float
     return_hf_kj_kg: float
@@ -75,15 +77,7 @@ def flash(body: FlashIn) -> FlashOut:
             body.absolute(body.return_pressure_kpa_g),
             body.condensate_temperature_c,
         )
-    return FlashOut(
-        flash_fraction=result.flash_fraction,
-        inlet_enthalpy_kj_kg=result.inlet_enthalpy_kj_kg,
-        return_hf_kj_kg=result.return_hf_kj_kg,
-        return_hfg_kj_kg=result.return_hfg_kj_kg,
-        return_hg_kj_kg=result.return_hg_kj_kg,
-        inlet_saturation_temperature_c=result.inlet_saturation_temperature_c,
-        return_saturation_temperature_c=result.return_saturation_temperature_c,
-    )
+    return FlashOut.model_validate(result)
 
 
 class TrapLossIn(SiteInput):
