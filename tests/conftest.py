@@ -1,14 +1,73 @@
-"""Shared fixtures: an in-process client of a fresh application."""
+"""Shared fixtures: real databases (a SQLite file, and PostgreSQL where there is one),
+each migrated once per test session and emptied before every test that uses it."""
 
+import os
+import uuid
 from collections.abc import Iterator
+from pathlib import Path
 
 import pytest
 from fastapi.testclient import TestClient
+from sqlalchemy import create_engine, make_url
 
+from service.store.database import Database
+from service.store.models import Base
 from service.web.app import create_app
+
+POSTGRES_VARIABLE = "TRAPTALLY_TEST_POSTGRES_URL"
+
+
+@pytest.fixture(scope="session")
+def sqlite_database(tmp_path_factory: pytest.TempPathFactory) -> Iterator[Database]:
+    path: Path = tmp_path_factory.mktemp("store") / "traptally-test.db"
+    database = Database.at(f"sqlite:///{path}")
+    database.upgrade()
+    yield database
+    database.dispose()
+
+
+@pytest.fixture(scope="session")
+def postgresql_database() -> Iterator[Database]:
+    server_url = os.environ.get(POSTGRES_VARIABLE)
+    if not server_url:
+        if os.environ.get("CI"):
+            pytest.fail(f"PostgreSQL is required in CI: .ci/run sets {POSTGRES_VARIABLE}")
+        pytest.skip(f"no PostgreSQL here: set {POSTGRES_VARIABLE} to run these tests on it")
+    name = f"traptally_test_{uuid.uuid4().hex[:12]}"
+    server = create_engine(server_url, isolation_level="AUTOCOMMIT")
+    with server.connect() as connection:
+        connection.exec_driver_sql(f"CREATE DATABASE {name}")
+    url = make_url(server_url).set(database=name).render_as_string(hide_password=False)
+    database = Database.at(url)
+    database.upgrade()
+    yield database
+    database.dispose()
+    with server.connect() as connection:
+        connection.exec_driver_sql(f"DROP DATABASE {name} WITH (FORCE)")
+    server.dispose()
+
+
+def emptied(database: Database) -> Database:
+    with database.writing() as session:
+        for table in reversed(Base.metadata.sorted_tables):
+            session.execute(table.delete())
+    return database
+
+
+@pytest.fixture(params=["sqlite", "postgresql"])
+def store(request: pytest.FixtureRequest) -> Database:
+    """An empty, migrated database: each test that takes it runs on both backends."""
+    return emptied(request.getfixturevalue(f"{request.param}_database"))
 
 
 @pytest.fixture
-def client() -> Iterator[TestClient]:
-    with TestClient(create_app()) as test_client:
+def api(store: Database) -> Iterator[TestClient]:
+    with TestClient(create_app(store)) as test_client:
+        yield test_client
+
+
+@pytest.fixture
+def client(sqlite_database: Database) -> Iterator[TestClient]:
+    """A client for the endpoints that store nothing (steam properties, calculations)."""
+    with TestClient(create_app(sqlite_database)) as test_client:
         yield test_client
