@@ -101,24 +101,26 @@ class TrapLoss:
         return self.live_steam_high + self.condensate.total
 
 
-def loss_factor_for(condition: TrapCondition, override: float | None = None) -> Spread:
-    """The condition's loss factor, or a technician's override widened into its range.
+def loss_factor_for(
+    condition: TrapCondition, override: float | None = None, site_factor: Spread | None = None
+) -> Spread:
+    """The condition's loss factor (the site's, else the default), widened to an override.
 
     >>> loss_factor_for(TrapCondition.LEAKING)
     Spread(typical=0.25, low=0.1, high=0.4)
     >>> loss_factor_for(TrapCondition.LEAKING, 0.5)
     Spread(typical=0.5, low=0.1, high=0.5)
     """
-    default = DEFAULT_LOSS_FACTORS[condition]
+    base = site_factor or DEFAULT_LOSS_FACTORS[condition]
     if override is None:
-        return default
+        return base
     if not wastes_live_steam(condition):
         raise ValueError(
             f"a loss factor applies only to a trap that wastes live steam, not to '{condition}'"
         )
     if not 0.0 <= override <= 1.0:
         raise ValueError(f"loss factor {override:g} must lie from 0 to 1")
-    return default.widened_to(override)
+    return base.widened_to(override)
 
 
 def trap_loss(service: TrapService, economics: Economics) -> TrapLoss:

@@ -14,6 +14,10 @@ from typing import Any
 from fastapi import Request
 from fastapi.exceptions import RequestValidationError
 from fastapi.responses import JSONResponse
+from pydantic import ValidationError
+
+from service.store.errors import FieldError
+from service.store.surveys import IDEMPOTENCY_HEADER
 
 _PYDANTIC_PREFIX = "Value error, "
 
@@ -60,6 +64,33 @@ async def validation_error_as_422(request: Request, error: Exception) -> JSONRes
         for entry in error.errors()
     ]
     return JSONResponse(status_code=422, content={"detail": detail})
+
+
+async def pydantic_error_as_422(request: Request, error: Exception) -> JSONResponse:
+    """A merged edit that fails validation in a store function: 422 on its fields."""
+    assert isinstance(error, ValidationError)
+    detail = [
+        problem(["body", *entry["loc"]], entry["msg"], entry["type"], entry.get("input"))
+        for entry in error.errors()
+    ]
+    return JSONResponse(status_code=422, content={"detail": detail})
+
+
+async def field_error_as_422(request: Request, error: Exception) -> JSONResponse:
+    assert isinstance(error, FieldError)
+    where = "header" if error.field == IDEMPOTENCY_HEADER else "body"
+    return JSONResponse(
+        status_code=422,
+        content={"detail": [problem([where, error.field], str(error), "value_error", None)]},
+    )
+
+
+async def not_found_as_404(request: Request, error: Exception) -> JSONResponse:
+    return JSONResponse(status_code=404, content={"detail": str(error)})
+
+
+async def conflict_as_409(request: Request, error: Exception) -> JSONResponse:
+    return JSONResponse(status_code=409, content={"detail": str(error)})
 
 
 async def value_error_as_422(request: Request, error: Exception) -> JSONResponse:

@@ -13,7 +13,12 @@ from service.physics.annual import (
     Economics,
     YearlyLoss,
 )
-from service.physics.conditions import TrapCondition, discharges_condensate
+from service.physics.conditions import (
+    DEFAULT_LOSS_FACTORS,
+    TrapCondition,
+    discharges_condensate,
+    wastes_live_steam,
+)
 from service.physics.flash import flash_of_condensate
 from service.physics.orifice import MAXIMUM_ORIFICE_MM, FlowMethod, FlowRegime
 from service.physics.spread import Spread
@@ -92,6 +97,8 @@ class TrapLossIn(SiteInput):
     discharge_coefficient_low: DischargeCoefficient = DEFAULT_DISCHARGE_COEFFICIENT.low
     discharge_coefficient_high: DischargeCoefficient = DEFAULT_DISCHARGE_COEFFICIENT.high
     loss_factor: Fraction | None = None
+    loss_factor_low: Fraction | None = None
+    loss_factor_high: Fraction | None = None
     condensate_load_kg_h: Annotated[float, Field(ge=0.0, le=100_000.0)] = 0.0
     condensate_destination: CondensateDestination = CondensateDestination.CLOSED_RETURN
     steam_cost_per_tonne: Money | None = None
@@ -105,12 +112,14 @@ class TrapLossIn(SiteInput):
 
     _return_below_inlet = field_validator("return_pressure_kpa_g")(_return_below_inlet)
 
-    @field_validator("loss_factor")
+    @field_validator("loss_factor", "loss_factor_low", "loss_factor_high")
     @classmethod
     def _loss_factor_fits_condition(cls, value: float | None, info: ValidationInfo) -> Any:
         condition = info.data.get("condition")
-        if value is not None and condition is not None:
-            loss_factor_for(condition, value)
+        if value is not None and condition is not None and not wastes_live_steam(condition):
+            raise ValueError(
+                f"a loss factor applies only to a trap that wastes live steam, not to '{condition}'"
+            )
         return value
 
     @field_validator("fuel_price_per_gj")
@@ -121,10 +130,24 @@ class TrapLossIn(SiteInput):
         return value
 
     @model_validator(mode="after")
-    def _discharge_coefficient_in_range(self) -> Self:
+    def _ranges_hold_their_typical_values(self) -> Self:
         with reported_against("body", "discharge_coefficient", typed=self.discharge_coefficient):
             self.discharge_coefficient_spread()
+        with reported_against("body", "loss_factor", typed=self.loss_factor):
+            self.loss_factor_spread()
         return self
+
+    def loss_factor_spread(self) -> Spread:
+        """Without ends: the condition's default range, widened to a given typical value.
+        With ends: the range they give, which must hold the typical value."""
+        if self.loss_factor_low is None and self.loss_factor_high is None:
+            return loss_factor_for(self.condition, self.loss_factor)
+        default = DEFAULT_LOSS_FACTORS[self.condition]
+        return Spread(
+            default.typical if self.loss_factor is None else self.loss_factor,
+            default.low if self.loss_factor_low is None else self.loss_factor_low,
+            default.high if self.loss_factor_high is None else self.loss_factor_high,
+        )
 
     def discharge_coefficient_spread(self) -> Spread:
         return Spread(
@@ -143,7 +166,7 @@ class TrapLossIn(SiteInput):
             condensate_load_kg_h=self.condensate_load_kg_h,
             destination=self.condensate_destination,
             discharge_coefficient=self.discharge_coefficient_spread(),
-            loss_factor=loss_factor_for(self.condition, self.loss_factor),
+            loss_factor=self.loss_factor_spread(),
         )
 
     def economics(self) -> Economics:

@@ -1,0 +1,93 @@
+"""Sites: their settings, their survey summary, and the comparison of two surveys."""
+
+from typing import Annotated
+
+from fastapi import APIRouter, Query, Response
+from sqlalchemy import select
+from sqlalchemy.orm import Session
+
+from service.reports.compare import compare_surveys
+from service.reports.schemas import ComparisonOut, SummaryOut
+from service.reports.summary import site_summary
+from service.store import register
+from service.store.errors import NotFoundError
+from service.store.models import Site, Survey
+from service.store.records import get, paged
+from service.store.schemas import SiteCreate, SiteOut, SiteUpdate
+from service.store.surveys import latest_survey
+from service.web.dependencies import Db, PageOut, PagingDep
+
+router = APIRouter(tags=["sites"])
+
+
+@router.post("/sites", status_code=201, summary="Create a site")
+def create_site(body: SiteCreate, db: Db) -> SiteOut:
+    with db.writing() as session:
+        return SiteOut.model_validate(register.create_site(session=session, data=body))
+
+
+@router.get("/sites", summary="List sites")
+def list_sites(db: Db, paging: PagingDep) -> PageOut[SiteOut]:
+    with db.reading() as session:
+        page = paged(
+            session, select(Site).order_by(Site.name), limit=paging.limit, offset=paging.offset
+        )
+        return PageOut.of(page, SiteOut)
+
+
+@router.get("/sites/{site_id}", summary="One site and its settings")
+def read_site(site_id: int, db: Db) -> SiteOut:
+    with db.reading() as session:
+        return SiteOut.model_validate(get(session, Site, site_id))
+
+
+@router.patch("/sites/{site_id}", summary="Change a site's settings")
+def update_site(site_id: int, body: SiteUpdate, db: Db) -> SiteOut:
+    with db.writing() as session:
+        site = get(session, Site, site_id)
+        changes = body.model_dump(exclude_unset=True)
+        return SiteOut.model_validate(
+            register.update_site(session=session, site=site, changes=changes)
+        )
+
+
+@router.delete("/sites/{site_id}", status_code=204, summary="Delete a site with no traps")
+def delete_site(site_id: int, db: Db) -> Response:
+    with db.writing() as session:
+        register.delete_site(session=session, site=get(session, Site, site_id))
+    return Response(status_code=204)
+
+
+def survey_of_site(session: Session, site: Site, survey_id: int) -> Survey:
+    """The site's survey with this id; another site's survey is not found."""
+    survey = get(session, Survey, survey_id)
+    if survey.site_id != site.id:
+        raise NotFoundError("survey", survey_id)
+    return survey
+
+
+@router.get("/sites/{site_id}/summary", summary="A survey priced and rolled up")
+def summary(
+    site_id: int,
+    db: Db,
+    survey_id: Annotated[int | None, Query(description="Default: the latest survey")] = None,
+) -> SummaryOut:
+    with db.reading() as session:
+        site = get(session, Site, site_id)
+        survey = (
+            latest_survey(session=session, site=site)
+            if survey_id is None
+            else survey_of_site(session, site, survey_id)
+        )
+        return SummaryOut.of(site_summary(session=session, site=site, survey=survey))
+
+
+@router.get("/sites/{site_id}/compare", summary="What changed from one survey to another")
+def compare(site_id: int, from_survey: int, to_survey: int, db: Db) -> ComparisonOut:
+    with db.reading() as session:
+        site = get(session, Site, site_id)
+        before = survey_of_site(session, site, from_survey)
+        after = survey_of_site(session, site, to_survey)
+        return ComparisonOut.of(
+            compare_surveys(session=session, site=site, before=before, after=after)
+        )
