@@ -1,0 +1,285 @@
+"""The site roll-up: every tested trap priced, summed by condition, area and application.
+
+One pass over the traps and their latest findings in the survey. Each trap is priced
+by the calculation core exactly as `POST /api/v1/calc/trap-loss` would price it (see
+`pricing.py`); the roll-up only adds those figures up and ranks the repairs.
+"""
+
+import datetime as dt
+from dataclasses import dataclass, field
+from typing import NamedTuple
+
+from sqlalchemy import func, or_, select
+from sqlalchemy.orm import Session
+
+from service.physics.annual import Economics, YearlyLoss
+from service.physics.conditions import TrapCondition, is_failed, is_flooding_risk
+from service.physics.trap_loss import CondensateDestination, TrapLoss, TrapService, trap_loss
+from service.reports.pricing import economics_of, trap_service_of
+from service.store.latest import latest_findings
+from service.store.models import Area, Repair, Site, Survey, Trap
+from service.store.vocabulary import Application, RecommendedAction, RepairKind, TrapType
+
+NO_AREA = "(no area)"
+NOTHING = YearlyLoss(mass_t=0.0, energy_gj=0.0, fuel_gj=0.0, cost=0.0, co2_t=0.0)
+
+
+class SummaryRow(NamedTuple):
+    """A trap and its latest finding in the survey, as the summary reads them."""
+
+    trap_id: int
+    tag: str
+    location: str
+    area_id: int | None
+    area_name: str | None
+    route_order: int | None
+    application: Application
+    trap_type: TrapType
+    orifice_diameter_mm: float
+    inlet_pressure_kpa_g: float
+    return_pressure_kpa_g: float
+    condensate_destination: CondensateDestination
+    condensate_load_kg_h: float | None
+    hours_per_year: float | None
+    in_service: bool
+    finding_id: int | None
+    tested_at: dt.datetime | None
+    condition: TrapCondition | None
+    loss_factor_override: float | None
+    recommended_action: RecommendedAction | None
+
+
+@dataclass(frozen=True, slots=True)
+class PricedTrap:
+    """One tested trap, its latest finding in the survey, and what that costs a year."""
+
+    trap_id: int
+    tag: str
+    location: str
+    area_id: int | None
+    area_name: str
+    application: Application
+    trap_type: TrapType
+    finding_id: int
+    tested_at: dt.datetime
+    condition: TrapCondition
+    recommended_action: RecommendedAction
+    loss_factor_override: float | None
+    service: TrapService
+    loss: TrapLoss
+    repair_kind: RepairKind
+    repair_cost: float | None
+    repaired_on: dt.date | None  # a repair since the finding, awaiting its confirming test
+
+    @property
+    def failed(self) -> bool:
+        return is_failed(self.condition)
+
+    @property
+    def yearly_cost(self) -> float:
+        return self.loss.total.cost or 0.0
+
+    def payback_years(self, yearly_cost: float | None) -> float | None:
+        """Simple payback = repair cost / yearly saving; None where nothing is saved."""
+        if self.repair_cost is None or not yearly_cost:
+            return None
+        return self.repair_cost / yearly_cost
+
+
+@dataclass(slots=True)
+class Tally:
+    """Sums over a group of priced traps."""
+
+    traps: int = 0
+    failed: int = 0
+    live_steam: YearlyLoss = NOTHING
+    live_steam_low: YearlyLoss = NOTHING
+    live_steam_high: YearlyLoss = NOTHING
+    flash_vented: YearlyLoss = NOTHING
+    condensate_to_drain: YearlyLoss = NOTHING
+
+    def add(self, priced: PricedTrap) -> None:
+        loss = priced.loss
+        self.traps += 1
+        self.failed += priced.failed
+        self.live_steam += loss.live_steam
+        self.live_steam_low += loss.live_steam_low
+        self.live_steam_high += loss.live_steam_high
+        self.flash_vented += loss.condensate.flash_vented
+        self.condensate_to_drain += loss.condensate.condensate_to_drain
+
+    @property
+    def condensate(self) -> YearlyLoss:
+        return self.flash_vented + self.condensate_to_drain
+
+    @property
+    def total(self) -> YearlyLoss:
+        return self.live_steam + self.condensate
+
+    @property
+    def total_low(self) -> YearlyLoss:
+        return self.live_steam_low + self.condensate
+
+    @property
+    def total_high(self) -> YearlyLoss:
+        return self.live_steam_high + self.condensate
+
+
+@dataclass(slots=True)
+class SiteSummary:
+    """A survey's findings at a site, priced and rolled up."""
+
+    site: Site
+    survey: Survey | None
+    traps_in_service: int = 0
+    traps_untested: int = 0
+    traps_not_accessible: int = 0
+    traps_out_of_service: int = 0
+    totals: Tally = field(default_factory=Tally)
+    by_condition: dict[TrapCondition, Tally] = field(default_factory=dict)
+    by_area: dict[str, Tally] = field(default_factory=dict)
+    by_application: dict[Application, Tally] = field(default_factory=dict)
+    priced: list[PricedTrap] = field(default_factory=list)
+
+    @property
+    def traps_tested(self) -> int:
+        """Traps tested in operation: found with a condition other than not accessible
+        or out of service."""
+        return self.totals.traps - self.traps_not_accessible - self.traps_out_of_service
+
+    @property
+    def failed_count(self) -> int:
+        return self.totals.failed
+
+    @property
+    def failure_rate(self) -> float | None:
+        """Failed traps over traps tested in operation; None before any test."""
+        return self.failed_count / self.traps_tested if self.traps_tested else None
+
+    @property
+    def risks(self) -> list[PricedTrap]:
+        """Plugged and flooded traps: no steam lost, but the equipment floods."""
+        return [priced for priced in self.priced if is_flooding_risk(priced.condition)]
+
+    @property
+    def repair_list(self) -> list[PricedTrap]:
+        """Failed traps that cost money, the costliest first."""
+        costly = [p for p in self.priced if p.failed and p.yearly_cost > 0.0]
+        return sorted(costly, key=lambda priced: (-priced.yearly_cost, priced.tag))
+
+
+def _repair_cost(
+    site: Site, trap_type: TrapType, action: RecommendedAction
+) -> tuple[RepairKind, float | None]:
+    kind = RepairKind.REPLACED if action is RecommendedAction.REPLACE else RepairKind.REPAIRED
+    costs = site.repair_costs.get(trap_type.value)
+    return kind, None if costs is None else costs.get(kind.value)
+
+
+def _repairs_since(session: Session, site: Site) -> dict[int, dt.date]:
+    rows = session.execute(
+        select(Repair.trap_id, func.max(Repair.repaired_on))
+        .join(Trap, Trap.id == Repair.trap_id)
+        .where(Trap.site_id == site.id)
+        .group_by(Repair.trap_id)
+    )
+    return dict(rows.all())
+
+
+def summary_rows(session: Session, site: Site, survey: Survey | None) -> list[SummaryRow]:
+    """Traps in service (and any tested in the survey since retired) with their latest
+    finding in the survey, in route order: what a summary reads, and nothing else."""
+    latest = latest_findings(site_id=site.id, survey_id=survey.id if survey else -1).subquery()
+    query = (
+        select(
+            Trap.id,
+            Trap.tag,
+            Trap.location,
+            Trap.area_id,
+            Area.name,
+            Area.route_order,
+            Trap.application,
+            Trap.trap_type,
+            Trap.orifice_diameter_mm,
+            Trap.inlet_pressure_kpa_g,
+            Trap.return_pressure_kpa_g,
+            Trap.condensate_destination,
+            Trap.condensate_load_kg_h,
+            Trap.hours_per_year,
+            Trap.in_service,
+            latest.c.id,
+            latest.c.tested_at,
+            latest.c.condition,
+            latest.c.loss_factor_override,
+            latest.c.recommended_action,
+        )
+        .outerjoin(Area, Area.id == Trap.area_id)
+        .outerjoin(latest, latest.c.trap_id == Trap.id)
+        .where(Trap.site_id == site.id, or_(Trap.in_service, latest.c.id.is_not(None)))
+        .order_by(Area.route_order, Area.name, Trap.route_position, Trap.tag)
+    )
+    return [SummaryRow._make(row) for row in session.execute(query)]
+
+
+def _priced(
+    site: Site, economics: Economics, row: SummaryRow, repaired_on: dt.date | None
+) -> PricedTrap:
+    # A finding's columns are all NOT NULL: with its id present, so are the others.
+    assert row.finding_id is not None
+    assert row.tested_at is not None
+    assert row.condition is not None
+    assert row.recommended_action is not None
+    service = trap_service_of(
+        site,
+        inlet_pressure_kpa_g=row.inlet_pressure_kpa_g,
+        return_pressure_kpa_g=row.return_pressure_kpa_g,
+        orifice_diameter_mm=row.orifice_diameter_mm,
+        condensate_destination=row.condensate_destination,
+        condensate_load_kg_h=row.condensate_load_kg_h,
+        hours_per_year=row.hours_per_year,
+        condition=row.condition,
+        loss_factor_override=row.loss_factor_override,
+    )
+    kind, cost = _repair_cost(site, row.trap_type, row.recommended_action)
+    return PricedTrap(
+        trap_id=row.trap_id,
+        tag=row.tag,
+        location=row.location,
+        area_id=row.area_id,
+        area_name=row.area_name or NO_AREA,
+        application=row.application,
+        trap_type=row.trap_type,
+        finding_id=row.finding_id,
+        tested_at=row.tested_at,
+        condition=row.condition,
+        recommended_action=row.recommended_action,
+        loss_factor_override=row.loss_factor_override,
+        service=service,
+        loss=trap_loss(service, economics),
+        repair_kind=kind,
+        repair_cost=cost,
+        repaired_on=repaired_on
+        if repaired_on is not None and repaired_on >= row.tested_at.date()
+        else None,
+    )
+
+
+def site_summary(*, session: Session, site: Site, survey: Survey | None) -> SiteSummary:
+    """The survey's findings at the site, each trap priced, then rolled up."""
+    summary = SiteSummary(site=site, survey=survey)
+    economics = economics_of(site)
+    repaired = _repairs_since(session, site)
+    for row in summary_rows(session, site, survey):
+        summary.traps_in_service += row.in_service
+        if row.finding_id is None:
+            summary.traps_untested += 1
+            continue
+        priced = _priced(site, economics, row, repaired.get(row.trap_id))
+        summary.priced.append(priced)
+        summary.totals.add(priced)
+        summary.by_condition.setdefault(priced.condition, Tally()).add(priced)
+        summary.by_area.setdefault(priced.area_name, Tally()).add(priced)
+        summary.by_application.setdefault(priced.application, Tally()).add(priced)
+        summary.traps_not_accessible += priced.condition is TrapCondition.NOT_ACCESSIBLE
+        summary.traps_out_of_service += priced.condition is TrapCondition.OUT_OF_SERVICE
+    return summary
