@@ -7,6 +7,7 @@ from pathlib import Path
 import pytest
 
 from service.settings import DATABASE_URL_VARIABLE, Settings
+from service.store.schemas import SiteCreate
 from service.web.api.calc import TrapLossIn
 
 README = (Path(__file__).resolve().parents[1] / "README.md").read_text(encoding="utf-8")
@@ -37,3 +38,10 @@ def test_every_calculation_default_is_documented_with_its_value(name: str) -> No
         assert "| none |" in row or "| by condition |" in row, row
     else:
         assert f"`{default}`" in row, row
+
+
+@pytest.mark.parametrize(
+    "name", [name for name in SiteCreate.model_fields if name not in {"name", "location"}]
+)
+def test_every_site_setting_is_documented(name: str) -> None:
+    _row(name)

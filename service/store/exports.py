@@ -1,0 +1,69 @@
+"""CSV exports of the register, a survey's findings and a site's repairs.
+
+Each is written in the columns `imports.py` reads, in the program's own units, so an
+exported file imports back to the same records.
+"""
+
+import datetime as dt
+from collections.abc import Iterable
+
+from sqlalchemy import select
+from sqlalchemy.orm import Session
+
+from service.store.csv_format import write_table
+from service.store.imports import FINDINGS, REGISTER, REPAIRS, ImportFormat
+from service.store.models import Area, Finding, Repair, Site, Survey, Trap
+
+
+def _headers(spec: ImportFormat) -> list[str]:
+    names = [column.name for column in spec.columns]
+    names += [unit_column.field for unit_column, _ in spec.unit_columns]
+    return names + list(spec.extra_columns)
+
+
+def _cell(value: object) -> object:
+    if isinstance(value, bool):
+        return "yes" if value else "no"
+    if isinstance(value, dt.date):  # dates, and moments (datetime is a date)
+        return value.isoformat()
+    return value
+
+
+def _csv(spec: ImportFormat, rows: Iterable[tuple[object, object]], joined: str) -> str:
+    """Records with one joined value each (a trap's area name, a record's trap tag)."""
+    headers = _headers(spec)
+    lines = [
+        [_cell(value if name == joined else getattr(record, name)) for name in headers]
+        for record, value in rows
+    ]
+    return write_table(headers, lines)
+
+
+def register_csv(*, session: Session, site: Site) -> str:
+    rows = session.execute(
+        select(Trap, Area.name)
+        .outerjoin(Area, Area.id == Trap.area_id)
+        .where(Trap.site_id == site.id)
+        .order_by(Area.route_order, Area.name, Trap.route_position, Trap.tag)
+    )
+    return _csv(REGISTER, rows, "area")
+
+
+def findings_csv(*, session: Session, survey: Survey) -> str:
+    rows = session.execute(
+        select(Finding, Trap.tag)
+        .join(Trap, Trap.id == Finding.trap_id)
+        .where(Finding.survey_id == survey.id)
+        .order_by(Finding.tested_at, Finding.id)
+    )
+    return _csv(FINDINGS, rows, "tag")
+
+
+def repairs_csv(*, session: Session, site: Site) -> str:
+    rows = session.execute(
+        select(Repair, Trap.tag)
+        .join(Trap, Trap.id == Repair.trap_id)
+        .where(Trap.site_id == site.id)
+        .order_by(Repair.repaired_on, Repair.id)
+    )
+    return _csv(REPAIRS, rows, "tag")
