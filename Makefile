@@ -34,7 +34,7 @@ fix: install
 	$(BIN)/ruff format .
 
 bench: install
-	$(BIN)/python bench/run.py
+	$(BIN)/python -m bench.run
 
 clean:
 	rm -rf $(VENV) .pytest_cache .mypy_cache .ruff_cache .coverage

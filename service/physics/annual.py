@@ -68,6 +68,16 @@ class YearlyLoss:
     cost: float | None
     co2_t: float
 
+    def scaled(self, factor: float) -> "YearlyLoss":
+        """This loss for `factor` times the mass (every figure is proportional to it)."""
+        return YearlyLoss(
+            mass_t=self.mass_t * factor,
+            energy_gj=self.energy_gj * factor,
+            fuel_gj=self.fuel_gj * factor,
+            cost=None if self.cost is None else self.cost * factor,
+            co2_t=self.co2_t * factor,
+        )
+
     def __add__(self, other: "YearlyLoss") -> "YearlyLoss":
         cost = None if self.cost is None or other.cost is None else self.cost + other.cost
         return YearlyLoss(

@@ -158,15 +158,14 @@ def trap_loss(service: TrapService, economics: Economics) -> TrapLoss:
         capacity = Spread.exact(fully_open.flow_kg_h).scaled(service.discharge_coefficient)
     steam_loss = capacity.scaled(loss_factor)
 
-    def live(mass_kg_h: float) -> YearlyLoss:
-        return yearly_loss(
-            mass_kg_h=mass_kg_h,
-            lost_enthalpy_kj_kg=inlet.hg_kj_kg,
-            steam_enthalpy_kj_kg=inlet.hg_kj_kg,
-            hours_per_year=service.hours_per_year,
-            economics=economics,
-        )
-
+    # Every yearly figure is proportional to the mass lost: price one kg/h, then scale.
+    per_kg_h = yearly_loss(
+        mass_kg_h=1.0,
+        lost_enthalpy_kj_kg=inlet.hg_kj_kg,
+        steam_enthalpy_kj_kg=inlet.hg_kj_kg,
+        hours_per_year=service.hours_per_year,
+        economics=economics,
+    )
     return TrapLoss(
         condition=condition,
         flow_regime=regime,
@@ -174,9 +173,9 @@ def trap_loss(service: TrapService, economics: Economics) -> TrapLoss:
         orifice_capacity_kg_h=capacity.typical,
         loss_factor=loss_factor,
         steam_loss_kg_h=steam_loss,
-        live_steam=live(steam_loss.typical),
-        live_steam_low=live(steam_loss.low),
-        live_steam_high=live(steam_loss.high),
+        live_steam=per_kg_h.scaled(steam_loss.typical),
+        live_steam_low=per_kg_h.scaled(steam_loss.low),
+        live_steam_high=per_kg_h.scaled(steam_loss.high),
         condensate=condensate_loss(service, economics),
         risk=RISK_NOTES.get(condition),
     )

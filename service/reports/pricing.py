@@ -4,6 +4,8 @@ The same conversion `POST /api/v1/calc/trap-loss` makes from its request, so tha
 trap in a summary and the same trap priced by hand give the same figures.
 """
 
+from dataclasses import dataclass
+
 from service.physics.annual import Economics
 from service.physics.conditions import TrapCondition, wastes_live_steam
 from service.physics.pressure import absolute_from_gauge
@@ -26,42 +28,66 @@ def economics_of(site: Site) -> Economics:
     )
 
 
-def discharge_coefficient_of(site: Site) -> Spread:
-    return Spread(
-        site.discharge_coefficient, site.discharge_coefficient_low, site.discharge_coefficient_high
-    )
+@dataclass(frozen=True, slots=True)
+class SitePricing:
+    """A site's settings, read once, as the calculation core takes them."""
 
+    atmospheric_pressure_kpa: float
+    hours_per_year: float
+    economics: Economics
+    discharge_coefficient: Spread
+    loss_factors: dict[TrapCondition, Spread]
 
-def loss_factor_at(site: Site, condition: TrapCondition, override: float | None) -> Spread:
-    """The site's loss factor for the condition, widened to hold a technician's override."""
-    site_factor = (
-        Spread(*site.loss_factors[condition.value]) if wastes_live_steam(condition) else None
-    )
-    return loss_factor_for(condition, override, site_factor)
+    @classmethod
+    def of(cls, site: Site) -> "SitePricing":
+        return cls(
+            atmospheric_pressure_kpa=site.atmospheric_pressure_kpa,
+            hours_per_year=site.hours_per_year,
+            economics=economics_of(site),
+            discharge_coefficient=Spread(
+                site.discharge_coefficient,
+                site.discharge_coefficient_low,
+                site.discharge_coefficient_high,
+            ),
+            loss_factors={
+                condition: loss_factor_for(
+                    condition,
+                    site_factor=Spread(*site.loss_factors[condition.value])
+                    if wastes_live_steam(condition)
+                    else None,
+                )
+                for condition in TrapCondition
+            },
+        )
 
+    def loss_factor(self, condition: TrapCondition, override: float | None) -> Spread:
+        """The site's loss factor for the condition, widened to hold an override."""
+        if override is None:
+            return self.loss_factors[condition]
+        return loss_factor_for(condition, override, self.loss_factors[condition])
 
-def trap_service_of(
-    site: Site,
-    *,
-    inlet_pressure_kpa_g: float,
-    return_pressure_kpa_g: float,
-    orifice_diameter_mm: float,
-    condensate_destination: CondensateDestination,
-    condensate_load_kg_h: float | None,
-    hours_per_year: float | None,
-    condition: TrapCondition,
-    loss_factor_override: float | None,
-) -> TrapService:
-    """What the loss calculation needs of one trap as found, at this site."""
-    atmosphere = site.atmospheric_pressure_kpa
-    return TrapService(
-        inlet_pressure_kpa_abs=absolute_from_gauge(inlet_pressure_kpa_g, atmosphere),
-        return_pressure_kpa_abs=absolute_from_gauge(return_pressure_kpa_g, atmosphere),
-        orifice_diameter_mm=orifice_diameter_mm,
-        condition=condition,
-        hours_per_year=site.hours_per_year if hours_per_year is None else hours_per_year,
-        condensate_load_kg_h=condensate_load_kg_h or 0.0,
-        destination=condensate_destination,
-        discharge_coefficient=discharge_coefficient_of(site),
-        loss_factor=loss_factor_at(site, condition, loss_factor_override),
-    )
+    def trap_service(
+        self,
+        *,
+        inlet_pressure_kpa_g: float,
+        return_pressure_kpa_g: float,
+        orifice_diameter_mm: float,
+        condensate_destination: CondensateDestination,
+        condensate_load_kg_h: float | None,
+        hours_per_year: float | None,
+        condition: TrapCondition,
+        loss_factor_override: float | None,
+    ) -> TrapService:
+        """What the loss calculation needs of one trap as found, at this site."""
+        atmosphere = self.atmospheric_pressure_kpa
+        return TrapService(
+            inlet_pressure_kpa_abs=absolute_from_gauge(inlet_pressure_kpa_g, atmosphere),
+            return_pressure_kpa_abs=absolute_from_gauge(return_pressure_kpa_g, atmosphere),
+            orifice_diameter_mm=orifice_diameter_mm,
+            condition=condition,
+            hours_per_year=self.hours_per_year if hours_per_year is None else hours_per_year,
+            condensate_load_kg_h=condensate_load_kg_h or 0.0,
+            destination=condensate_destination,
+            discharge_coefficient=self.discharge_coefficient,
+            loss_factor=self.loss_factor(condition, loss_factor_override),
+        )

@@ -7,21 +7,20 @@ by the calculation core exactly as `POST /api/v1/calc/trap-loss` would price it 
 
 import datetime as dt
 from dataclasses import dataclass, field
-from typing import NamedTuple
+from typing import NamedTuple, TypeVar
 
 from sqlalchemy import func, or_, select
 from sqlalchemy.orm import Session
 
-from service.physics.annual import Economics, YearlyLoss
+from service.physics.annual import YearlyLoss
 from service.physics.conditions import TrapCondition, is_failed, is_flooding_risk
 from service.physics.trap_loss import CondensateDestination, TrapLoss, TrapService, trap_loss
-from service.reports.pricing import economics_of, trap_service_of
-from service.store.latest import latest_findings
-from service.store.models import Area, Repair, Site, Survey, Trap
+from service.reports.pricing import SitePricing
+from service.store.latest import is_latest_finding
+from service.store.models import Area, Finding, Repair, Site, Survey, Trap
 from service.store.vocabulary import Application, RecommendedAction, RepairKind, TrapType
 
 NO_AREA = "(no area)"
-NOTHING = YearlyLoss(mass_t=0.0, energy_gj=0.0, fuel_gj=0.0, cost=0.0, co2_t=0.0)
 
 
 class SummaryRow(NamedTuple):
@@ -86,27 +85,94 @@ class PricedTrap:
         return self.repair_cost / yearly_cost
 
 
-@dataclass(slots=True)
+class _Sum:
+    """A running sum of yearly losses, added to in place (a summary adds 80 000 of them)."""
+
+    __slots__ = ("co2_t", "cost", "energy_gj", "fuel_gj", "mass_t", "priced")
+
+    def __init__(self) -> None:
+        self.mass_t = self.energy_gj = self.fuel_gj = self.cost = self.co2_t = 0.0
+        self.priced = True
+
+    def add(self, loss: YearlyLoss) -> None:
+        self.mass_t += loss.mass_t
+        self.energy_gj += loss.energy_gj
+        self.fuel_gj += loss.fuel_gj
+        self.co2_t += loss.co2_t
+        if loss.cost is None:
+            self.priced = False
+        else:
+            self.cost += loss.cost
+
+    def absorb(self, other: "_Sum") -> None:
+        self.mass_t += other.mass_t
+        self.energy_gj += other.energy_gj
+        self.fuel_gj += other.fuel_gj
+        self.co2_t += other.co2_t
+        self.cost += other.cost
+        self.priced = self.priced and other.priced
+
+    @property
+    def loss(self) -> YearlyLoss:
+        return YearlyLoss(
+            mass_t=self.mass_t,
+            energy_gj=self.energy_gj,
+            fuel_gj=self.fuel_gj,
+            cost=self.cost if self.priced else None,
+            co2_t=self.co2_t,
+        )
+
+
 class Tally:
     """Sums over a group of priced traps."""
 
-    traps: int = 0
-    failed: int = 0
-    live_steam: YearlyLoss = NOTHING
-    live_steam_low: YearlyLoss = NOTHING
-    live_steam_high: YearlyLoss = NOTHING
-    flash_vented: YearlyLoss = NOTHING
-    condensate_to_drain: YearlyLoss = NOTHING
+    __slots__ = ("_drain", "_flash", "_live", "_live_high", "_live_low", "failed", "traps")
+
+    def __init__(self) -> None:
+        self.traps = 0
+        self.failed = 0
+        self._live, self._live_low, self._live_high = _Sum(), _Sum(), _Sum()
+        self._flash, self._drain = _Sum(), _Sum()
 
     def add(self, priced: PricedTrap) -> None:
         loss = priced.loss
         self.traps += 1
         self.failed += priced.failed
-        self.live_steam += loss.live_steam
-        self.live_steam_low += loss.live_steam_low
-        self.live_steam_high += loss.live_steam_high
-        self.flash_vented += loss.condensate.flash_vented
-        self.condensate_to_drain += loss.condensate.condensate_to_drain
+        self._live.add(loss.live_steam)
+        self._live_low.add(loss.live_steam_low)
+        self._live_high.add(loss.live_steam_high)
+        self._flash.add(loss.condensate.flash_vented)
+        self._drain.add(loss.condensate.condensate_to_drain)
+
+    def absorb(self, other: "Tally") -> None:
+        """Add another group's sums to this one."""
+        self.traps += other.traps
+        self.failed += other.failed
+        self._live.absorb(other._live)
+        self._live_low.absorb(other._live_low)
+        self._live_high.absorb(other._live_high)
+        self._flash.absorb(other._flash)
+        self._drain.absorb(other._drain)
+
+    @property
+    def live_steam(self) -> YearlyLoss:
+        return self._live.loss
+
+    @property
+    def live_steam_low(self) -> YearlyLoss:
+        return self._live_low.loss
+
+    @property
+    def live_steam_high(self) -> YearlyLoss:
+        return self._live_high.loss
+
+    @property
+    def flash_vented(self) -> YearlyLoss:
+        return self._flash.loss
+
+    @property
+    def condensate_to_drain(self) -> YearlyLoss:
+        return self._drain.loss
 
     @property
     def condensate(self) -> YearlyLoss:
@@ -189,7 +255,6 @@ def _repairs_since(session: Session, site: Site) -> dict[int, dt.date]:
 def summary_rows(session: Session, site: Site, survey: Survey | None) -> list[SummaryRow]:
     """Traps in service (and any tested in the survey since retired) with their latest
     finding in the survey, in route order: what a summary reads, and nothing else."""
-    latest = latest_findings(site_id=site.id, survey_id=survey.id if survey else -1).subquery()
     query = (
         select(
             Trap.id,
@@ -207,30 +272,43 @@ def summary_rows(session: Session, site: Site, survey: Survey | None) -> list[Su
             Trap.condensate_load_kg_h,
             Trap.hours_per_year,
             Trap.in_service,
-            latest.c.id,
-            latest.c.tested_at,
-            latest.c.condition,
-            latest.c.loss_factor_override,
-            latest.c.recommended_action,
+            Finding.id,
+            Finding.tested_at,
+            Finding.condition,
+            Finding.loss_factor_override,
+            Finding.recommended_action,
         )
         .outerjoin(Area, Area.id == Trap.area_id)
-        .outerjoin(latest, latest.c.trap_id == Trap.id)
-        .where(Trap.site_id == site.id, or_(Trap.in_service, latest.c.id.is_not(None)))
+        .outerjoin(Finding, is_latest_finding(survey_id=survey.id if survey else -1))
+        .where(Trap.site_id == site.id, or_(Trap.in_service, Finding.id.is_not(None)))
         .order_by(Area.route_order, Area.name, Trap.route_position, Trap.tag)
     )
     return [SummaryRow._make(row) for row in session.execute(query)]
 
 
+def _loss_of(
+    service: TrapService, pricing: SitePricing, losses: dict[TrapService, TrapLoss]
+) -> TrapLoss:
+    """The trap's loss, computed once for every trap alike in all its inputs."""
+    loss = losses.get(service)
+    if loss is None:
+        loss = losses[service] = trap_loss(service, pricing.economics)
+    return loss
+
+
 def _priced(
-    site: Site, economics: Economics, row: SummaryRow, repaired_on: dt.date | None
+    site: Site,
+    pricing: SitePricing,
+    row: SummaryRow,
+    repaired_on: dt.date | None,
+    losses: dict[TrapService, TrapLoss],
 ) -> PricedTrap:
     # A finding's columns are all NOT NULL: with its id present, so are the others.
     assert row.finding_id is not None
     assert row.tested_at is not None
     assert row.condition is not None
     assert row.recommended_action is not None
-    service = trap_service_of(
-        site,
+    service = pricing.trap_service(
         inlet_pressure_kpa_g=row.inlet_pressure_kpa_g,
         return_pressure_kpa_g=row.return_pressure_kpa_g,
         orifice_diameter_mm=row.orifice_diameter_mm,
@@ -255,7 +333,8 @@ def _priced(
         recommended_action=row.recommended_action,
         loss_factor_override=row.loss_factor_override,
         service=service,
-        loss=trap_loss(service, economics),
+        loss=losses.get(service)
+        or losses.setdefault(service, trap_loss(service, pricing.economics)),
         repair_kind=kind,
         repair_cost=cost,
         repaired_on=repaired_on
@@ -264,22 +343,53 @@ def _priced(
     )
 
 
+Key = TypeVar("Key")
+
+
+def _tally_of(tallies: dict[Key, Tally], key: Key) -> Tally:
+    tally = tallies.get(key)
+    if tally is None:
+        tally = tallies[key] = Tally()
+    return tally
+
+
 def site_summary(*, session: Session, site: Site, survey: Survey | None) -> SiteSummary:
-    """The survey's findings at the site, each trap priced, then rolled up."""
+    """The survey's findings at the site, each trap priced, then rolled up.
+
+    Traps alike in every input (same pressures, orifice, load, hours and condition,
+    common on one header) are priced once. Sums go first into one tally per
+    (condition, area, application); the breakdowns and totals are sums of those.
+    """
     summary = SiteSummary(site=site, survey=survey)
-    economics = economics_of(site)
+    pricing = SitePricing.of(site)
     repaired = _repairs_since(session, site)
+    losses: dict[TrapService, TrapLoss] = {}
+    cells: dict[tuple[TrapCondition, str, Application], Tally] = {}
     for row in summary_rows(session, site, survey):
         summary.traps_in_service += row.in_service
         if row.finding_id is None:
             summary.traps_untested += 1
             continue
-        priced = _priced(site, economics, row, repaired.get(row.trap_id))
+        priced = _priced(site, pricing, row, repaired.get(row.trap_id), losses)
         summary.priced.append(priced)
-        summary.totals.add(priced)
-        summary.by_condition.setdefault(priced.condition, Tally()).add(priced)
-        summary.by_area.setdefault(priced.area_name, Tally()).add(priced)
-        summary.by_application.setdefault(priced.application, Tally()).add(priced)
-        summary.traps_not_accessible += priced.condition is TrapCondition.NOT_ACCESSIBLE
-        summary.traps_out_of_service += priced.condition is TrapCondition.OUT_OF_SERVICE
+        _tally_of(cells, (priced.condition, priced.area_name, priced.application)).add(priced)
+    for (condition, area_name, application), cell in cells.items():
+        for tally in (
+            summary.totals,
+            _tally_of(summary.by_condition, condition),
+            _tally_of(summary.by_area, area_name),
+            _tally_of(summary.by_application, application),
+        ):
+            tally.absorb(cell)
+        if condition is TrapCondition.NOT_ACCESSIBLE:
+            summary.traps_not_accessible += cell.traps
+        elif condition is TrapCondition.OUT_OF_SERVICE:
+            summary.traps_out_of_service += cell.traps
+    # Areas come in route order (the rows' order); conditions and uses in the trade's order.
+    summary.by_condition = {
+        c: summary.by_condition[c] for c in TrapCondition if c in summary.by_condition
+    }
+    summary.by_application = {
+        a: summary.by_application[a] for a in Application if a in summary.by_application
+    }
     return summary

@@ -1,24 +1,28 @@
 """Which finding counts: a trap's latest test (by when it was tested, then by entry)."""
 
-from typing import Any
+from sqlalchemy import ColumnElement, ScalarSelect, select
 
-from sqlalchemy import Select, func, select
-
-from service.store.models import Finding, Survey
+from service.store.models import Finding, Trap
 
 
-def latest_findings(*, site_id: int, survey_id: int | None = None) -> Select[Any]:
-    """Each trap's latest finding, in one survey or (without `survey_id`) in all of them.
+def latest_finding_id(*, survey_id: int | None = None) -> ScalarSelect[int]:
+    """The id of the enclosing query's trap's latest finding, in one survey or in all.
 
-    A select of the findings table's columns, one row per tested trap.
+    A correlated subquery on `Trap.id`: with the index on (survey_id, trap_id,
+    tested_at) each trap's lookup is one index probe, so a join on it stays linear
+    in the number of traps on SQLite and PostgreSQL alike.
     """
-    order = func.row_number().over(
-        partition_by=Finding.trap_id, order_by=(Finding.tested_at.desc(), Finding.id.desc())
-    )
-    ranked = select(Finding, order.label("rank")).join(Survey, Survey.id == Finding.survey_id)
-    ranked = ranked.where(Survey.site_id == site_id)
+    latest = select(Finding.id).where(Finding.trap_id == Trap.id)
     if survey_id is not None:
-        ranked = ranked.where(Finding.survey_id == survey_id)
-    numbered = ranked.subquery()
-    columns = [numbered.c[column.name] for column in Finding.__table__.columns]
-    return select(*columns).where(numbered.c.rank == 1)
+        latest = latest.where(Finding.survey_id == survey_id)
+    return (
+        latest.order_by(Finding.tested_at.desc(), Finding.id.desc())
+        .limit(1)
+        .correlate(Trap)
+        .scalar_subquery()
+    )
+
+
+def is_latest_finding(*, survey_id: int | None = None) -> ColumnElement[bool]:
+    """The join condition from a trap to its latest finding."""
+    return Finding.id == latest_finding_id(survey_id=survey_id)

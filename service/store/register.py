@@ -19,7 +19,7 @@ from service.physics.pressure import (
     atmospheric_pressure_at_elevation_kpa,
 )
 from service.store.errors import ConflictError, FieldError
-from service.store.latest import latest_findings
+from service.store.latest import is_latest_finding
 from service.store.models import Area, Finding, Repair, Site, Survey, Trap
 from service.store.records import Page, get, merged_input, paged
 from service.store.schemas import (
@@ -267,10 +267,7 @@ def list_traps(
     if where.tag_prefix:
         query = query.where(Trap.tag.startswith(where.tag_prefix, autoescape=True))
     if where.condition is not None:
-        latest = latest_findings(site_id=site.id).subquery()
-        query = query.join(latest, latest.c.trap_id == Trap.id).where(
-            latest.c.condition == where.condition
-        )
+        query = query.join(Finding, is_latest_finding()).where(Finding.condition == where.condition)
     return paged(session, query, limit=limit, offset=offset)
 
 

@@ -1,0 +1,1 @@
+"""Benchmarks that print figures; `make bench` runs them (python -m bench.run)."""

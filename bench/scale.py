@@ -1,0 +1,256 @@
+"""A large generated site: import time, summary against a bare read, growth, memory;
+and eight technicians writing findings at once on SQLite."""
+
+import asyncio
+import io
+import random
+import time
+import tracemalloc
+from collections.abc import Callable
+from pathlib import Path
+from typing import Any
+
+import httpx
+
+from bench.common import heading, served
+from service.reports.schemas import SummaryOut
+from service.reports.summary import site_summary, summary_rows
+from service.store import imports, register, surveys
+from service.store.database import Database
+from service.store.models import Site, Survey
+from service.store.schemas import SiteCreate, SurveyCreate
+
+PRESSURE_LEVELS_KPA_G = [1000.0, 850.0, 700.0, 550.0, 400.0, 300.0, 200.0, 100.0, 50.0]
+KINDS = [
+    ("drip", "thermodynamic", 3.2, "vented_receiver"),
+    ("process", "float_thermostatic", 6.4, "closed_return"),
+    ("process", "inverted_bucket", 4.8, "closed_return"),
+    ("tracer", "thermostatic_balanced_pressure", 2.4, "drain"),
+    ("space_heating", "thermostatic_bimetallic", 3.2, "vented_receiver"),
+]
+CONDITIONS = [
+    ("working", 80),
+    ("leaking", 7),
+    ("blow_through", 4),
+    ("rapid_cycling", 1),
+    ("plugged", 3),
+    ("flooded", 1),
+    ("not_accessible", 3),
+    ("out_of_service", 1),
+]
+
+
+def _csv(header: list[str], rows: list[list[Any]]) -> bytes:
+    out = io.StringIO()
+    out.write(",".join(header) + "\n")
+    for row in rows:
+        out.write(",".join(str(cell) for cell in row) + "\n")
+    return out.getvalue().encode()
+
+
+def register_file(traps: int, seed: int = 11) -> bytes:
+    chooser = random.Random(seed)
+    rows = []
+    for number in range(traps):
+        application, trap_type, orifice_mm, destination = chooser.choice(KINDS)
+        inlet = chooser.choice(PRESSURE_LEVELS_KPA_G)
+        rows.append(
+            [
+                f"T{number:06d}",
+                f"Area {number % 12:02d}",
+                number,
+                application,
+                trap_type,
+                orifice_mm,
+                inlet,
+                chooser.choice([0.0, inlet * 0.1]),
+                destination,
+                chooser.choice([10.0, 40.0, 150.0]),
+            ]
+        )
+    header = [
+        "tag",
+        "area",
+        "route_position",
+        "application",
+        "trap_type",
+        "orifice_diameter_mm",
+        "inlet_pressure_kpa_g",
+        "return_pressure_kpa_g",
+        "condensate_destination",
+        "condensate_load_kg_h",
+    ]
+    return _csv(header, rows)
+
+
+def findings_file(traps: int, year: int, seed: int) -> bytes:
+    chooser = random.Random(seed)
+    names, weights = zip(*CONDITIONS, strict=True)
+    rows = [
+        [
+            f"T{number:06d}",
+            f"{year}-03-{1 + number % 28:02d}T{8 + number % 9:02d}:00:00Z",
+            "ultrasonic",
+            chooser.choices(names, weights)[0],
+        ]
+        for number in range(traps)
+    ]
+    return _csv(["tag", "tested_at", "method", "condition"], rows)
+
+
+def _timed(work: Callable[[], Any]) -> tuple[float, Any]:
+    start = time.perf_counter()
+    result = work()
+    return time.perf_counter() - start, result
+
+
+def _best_of(repeats: int, work: Callable[[], Any]) -> float:
+    return min(_timed(work)[0] for _ in range(repeats))
+
+
+def _build_site(database: Database, name: str, traps: int) -> tuple[float, float]:
+    """A site of `traps` traps and three surveys; (register import s, findings import s)."""
+    content = register_file(traps)
+    with database.writing() as session:
+        site = register.create_site(
+            session=session, data=SiteCreate(name=name, steam_cost_per_tonne=32.0)
+        )
+        register_seconds, plan = _timed(
+            lambda: imports.plan_register(session=session, site=site, content=content)
+        )
+        register_seconds += _timed(
+            lambda: imports.apply_register(session=session, site=site, plan=plan)
+        )[0]
+    findings_seconds = 0.0
+    for year in (2024, 2025, 2026):
+        content = findings_file(traps, year, seed=year)
+        with database.writing() as session:
+            site = session.get_one(Site, _site_id(database, name))
+            survey = surveys.create_survey(
+                session=session,
+                site=site,
+                data=SurveyCreate(name=f"Survey {year}", started_on=f"{year}-03-01"),
+            )
+            start = time.perf_counter()
+            plan = imports.plan_findings(session=session, survey=survey, content=content)
+            assert plan.clean, plan.problems[:3]
+            imports.apply_findings(session=session, survey=survey, plan=plan)
+            findings_seconds += time.perf_counter() - start
+    return register_seconds, findings_seconds
+
+
+def _site_id(database: Database, name: str) -> int:
+    from sqlalchemy import select
+
+    with database.reading() as session:
+        found = session.scalar(select(Site.id).where(Site.name == name))
+        assert found is not None
+        return found
+
+
+def _summary_timings(database: Database, name: str) -> dict[str, float]:
+    with database.reading() as session:
+        site = session.get_one(Site, _site_id(database, name))
+        survey = surveys.latest_survey(session=session, site=site)
+        assert isinstance(survey, Survey)
+        read = _best_of(3, lambda: summary_rows(session, site, survey))
+        summary = _best_of(3, lambda: site_summary(session=session, site=site, survey=survey))
+        api = _best_of(
+            3, lambda: SummaryOut.of(site_summary(session=session, site=site, survey=survey))
+        )
+        tracemalloc.start()
+        site_summary(session=session, site=site, survey=survey)
+        _, peak = tracemalloc.get_traced_memory()
+        tracemalloc.stop()
+    return {"read": read, "summary": summary, "api": api, "peak_mb": peak / 1e6}
+
+
+def run(tmp: Path) -> None:
+    heading("scale: generated sites, 2,000 and 20,000 traps, three surveys each (SQLite)")
+    path = tmp / "scale.db"
+    for suffix in ("", "-wal", "-shm"):
+        Path(f"{path}{suffix}").unlink(missing_ok=True)
+    database = Database.at(f"sqlite:///{path}")
+    database.upgrade()
+    timings = {}
+    for traps in (2_000, 20_000):
+        name = f"Generated {traps}"
+        register_seconds, findings_seconds = _build_site(database, name, traps)
+        print(
+            f"{traps:6d} traps: register import {register_seconds:6.2f} s, "
+            f"{3 * traps} findings import {findings_seconds:6.2f} s"
+        )
+        timings[traps] = _summary_timings(database, name)
+    for traps, figures in timings.items():
+        ratio = figures["summary"] / figures["read"]
+        print(
+            f"{traps:6d} traps: read of traps + latest findings {figures['read']:6.3f} s, "
+            f"summary {figures['summary']:6.3f} s (ratio {ratio:4.2f}), as the API's shape "
+            f"{figures['api']:6.3f} s, summary's peak memory {figures['peak_mb']:6.1f} MB"
+        )
+    growth = timings[20_000]["summary"] / timings[2_000]["summary"]
+    print(f"growth of the summary from 2,000 to 20,000 traps: {growth:4.1f} x (linear is 10)")
+    database.dispose()
+
+
+async def _writers(
+    base: str, survey_id: int, trap_ids: list[int], writers: int, each: int
+) -> tuple[int, int, float]:
+    errors = 0
+
+    async def writer(client: httpx.AsyncClient, number: int) -> None:
+        nonlocal errors
+        for index in range(each):
+            body = {
+                "trap_id": trap_ids[(number * each + index) % len(trap_ids)],
+                "tested_at": f"2026-03-02T{8 + index // 60:02d}:{index % 60:02d}:{number:02d}Z",
+                "method": "ultrasonic",
+                "condition": "working" if index % 5 else "leaking",
+            }
+            answer = await client.post(
+                f"{base}/api/v1/surveys/{survey_id}/findings",
+                json=body,
+                headers={"Idempotency-Key": f"writer-{number:02d}-finding-{index:04d}"},
+            )
+            errors += answer.status_code != 201
+
+    start = time.perf_counter()
+    async with httpx.AsyncClient(timeout=60) as client:
+        await asyncio.gather(*(writer(client, number) for number in range(writers)))
+    return errors, writers * each, time.perf_counter() - start
+
+
+def run_writers(tmp: Path) -> None:
+    heading("writers: 8 technicians recording 200 findings each at once (SQLite, over HTTP)")
+    path = tmp / "writers.db"
+    for suffix in ("", "-wal", "-shm"):
+        Path(f"{path}{suffix}").unlink(missing_ok=True)
+    url = f"sqlite:///{path}"
+    with served(url) as base:
+        site = httpx.post(
+            f"{base}/api/v1/sites", json={"name": "Writers", "steam_cost_per_tonne": 30}
+        ).json()
+        traps = [
+            httpx.post(
+                f"{base}/api/v1/sites/{site['id']}/traps",
+                json={
+                    "tag": f"W-{number:03d}",
+                    "application": "drip",
+                    "trap_type": "thermodynamic",
+                    "orifice_diameter_mm": 3.0,
+                    "inlet_pressure_kpa_g": 700,
+                    "return_pressure_kpa_g": 0,
+                },
+            ).json()["id"]
+            for number in range(40)
+        ]
+        survey = httpx.post(
+            f"{base}/api/v1/sites/{site['id']}/surveys",
+            json={"name": "Load", "started_on": "2026-03-02"},
+        ).json()
+        errors, sent, seconds = asyncio.run(_writers(base, survey["id"], traps, 8, 200))
+        stored = httpx.get(
+            f"{base}/api/v1/surveys/{survey['id']}/findings", params={"limit": 1}
+        ).json()["total"]
+    print(f"findings sent {sent}, stored {stored}, error answers {errors}")
+    print(f"requests per second: {sent / seconds:7.0f} ({seconds:.1f} s)")
