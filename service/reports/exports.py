@@ -1,4 +1,10 @@
-"""The repair list as a CSV report (a report, not a file to import back)."""
+"""The repair list as a report in CSV or XLSX (not a file to import back), and XLSX
+sheets for any table."""
+
+import io
+
+from openpyxl import Workbook
+from openpyxl.styles import Font
 
 from service.reports.schemas import SummaryOut
 from service.store.csv_format import write_table
@@ -27,7 +33,7 @@ REPAIR_LIST_COLUMNS = (
 )
 
 
-def repair_list_csv(summary: SummaryOut) -> str:
+def repair_list_table(summary: SummaryOut) -> tuple[list[str], list[list[object]]]:
     """The failed traps that cost money, costliest first, with rank and currency."""
     header = ["rank", *REPAIR_LIST_COLUMNS, "currency"]
     rows = [
@@ -38,4 +44,24 @@ def repair_list_csv(summary: SummaryOut) -> str:
         ]
         for rank, item in enumerate(summary.repair_list, start=1)
     ]
-    return write_table(header, rows)
+    return header, rows
+
+
+def repair_list_csv(summary: SummaryOut) -> str:
+    return write_table(*repair_list_table(summary))
+
+
+def xlsx_bytes(title: str, header: list[str], rows: list[list[object]]) -> bytes:
+    """One sheet with a bold, frozen header row, as an .xlsx file."""
+    workbook = Workbook()
+    sheet = workbook.active
+    sheet.title = title[:31]
+    sheet.append(header)
+    for cell in sheet[1]:
+        cell.font = Font(bold=True)
+    sheet.freeze_panes = "A2"
+    for row in rows:
+        sheet.append(row)
+    out = io.BytesIO()
+    workbook.save(out)
+    return out.getvalue()

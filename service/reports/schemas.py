@@ -42,6 +42,8 @@ class TallyOut(BaseModel):
     annual_total_cost_low: float | None
     annual_total_cost_high: float | None
     annual_total_co2_t: float
+    annual_total_co2_t_low: float
+    annual_total_co2_t_high: float
 
     @classmethod
     def of(cls, tally: Tally) -> "TallyOut":
@@ -69,6 +71,8 @@ class TallyOut(BaseModel):
             annual_total_cost_low=tally.total_low.cost,
             annual_total_cost_high=tally.total_high.cost,
             annual_total_co2_t=tally.total.co2_t,
+            annual_total_co2_t_low=tally.total_low.co2_t,
+            annual_total_co2_t_high=tally.total_high.co2_t,
         )
 
 

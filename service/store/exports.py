@@ -29,14 +29,17 @@ def _cell(value: object) -> object:
     return value
 
 
-def _csv(spec: ImportFormat, rows: Iterable[tuple[object, object]], joined: str) -> str:
+Table = tuple[list[str], list[list[object]]]
+
+
+def _table(spec: ImportFormat, rows: Iterable[tuple[object, object]], joined: str) -> Table:
     """Records with one joined value each (a trap's area name, a record's trap tag)."""
     headers = _headers(spec)
     lines = [
         [_cell(value if name == joined else getattr(record, name)) for name in headers]
         for record, value in rows
     ]
-    return write_table(headers, lines)
+    return headers, lines
 
 
 def register_csv(*, session: Session, site: Site) -> str:
@@ -46,17 +49,21 @@ def register_csv(*, session: Session, site: Site) -> str:
         .where(Trap.site_id == site.id)
         .order_by(Area.route_order, Area.name, Trap.route_position, Trap.tag)
     )
-    return _csv(REGISTER, rows, "area")
+    return write_table(*_table(REGISTER, rows, "area"))
 
 
-def findings_csv(*, session: Session, survey: Survey) -> str:
+def findings_table(*, session: Session, survey: Survey) -> Table:
     rows = session.execute(
         select(Finding, Trap.tag)
         .join(Trap, Trap.id == Finding.trap_id)
         .where(Finding.survey_id == survey.id)
         .order_by(Finding.tested_at, Finding.id)
     )
-    return _csv(FINDINGS, rows, "tag")
+    return _table(FINDINGS, rows, "tag")
+
+
+def findings_csv(*, session: Session, survey: Survey) -> str:
+    return write_table(*findings_table(session=session, survey=survey))
 
 
 def repairs_csv(*, session: Session, site: Site) -> str:
@@ -66,4 +73,4 @@ def repairs_csv(*, session: Session, site: Site) -> str:
         .where(Trap.site_id == site.id)
         .order_by(Repair.repaired_on, Repair.id)
     )
-    return _csv(REPAIRS, rows, "tag")
+    return write_table(*_table(REPAIRS, rows, "tag"))

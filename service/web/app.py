@@ -5,13 +5,14 @@ from contextlib import asynccontextmanager
 
 from fastapi import FastAPI
 from fastapi.exceptions import RequestValidationError
+from fastapi.staticfiles import StaticFiles
 from pydantic import ValidationError
 
 from service import __version__
 from service.settings import Settings
 from service.store.database import Database
 from service.store.errors import ConflictError, FieldError, NotFoundError
-from service.web import errors
+from service.web import errors, pages
 from service.web.api import (
     areas,
     calc,
@@ -24,6 +25,7 @@ from service.web.api import (
     transfer,
     traps,
 )
+from service.web.pages.templating import PROJECT
 
 API_ROUTERS = (
     health.router,
@@ -36,6 +38,14 @@ API_ROUTERS = (
     findings.router,
     repairs.router,
     transfer.router,
+)
+
+PAGE_ROUTERS = (
+    pages.site.router,
+    pages.register.router,
+    pages.walk.router,
+    pages.calculator.router,
+    pages.transfer.router,
 )
 
 
@@ -57,6 +67,9 @@ def create_app(database: Database | None = None) -> FastAPI:
     app.state.database = store
     for router in API_ROUTERS:
         app.include_router(router, prefix="/api/v1")
+    for router in PAGE_ROUTERS:
+        app.include_router(router)
+    app.mount("/static", StaticFiles(directory=PROJECT / "static"), name="static")
     app.add_exception_handler(RequestValidationError, errors.validation_error_as_422)
     app.add_exception_handler(ValidationError, errors.pydantic_error_as_422)
     app.add_exception_handler(FieldError, errors.field_error_as_422)

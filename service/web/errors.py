@@ -13,7 +13,7 @@ from typing import Any
 
 from fastapi import Request
 from fastapi.exceptions import RequestValidationError
-from fastapi.responses import JSONResponse
+from fastapi.responses import JSONResponse, Response
 from pydantic import ValidationError
 
 from service.store.errors import FieldError
@@ -56,13 +56,16 @@ def problem(location: list[str | int], message: str, kind: str, typed: Any) -> d
     }
 
 
-async def validation_error_as_422(request: Request, error: Exception) -> JSONResponse:
+async def validation_error_as_422(request: Request, error: Exception) -> Response:
     """FastAPI's validation errors, with readable messages and the typed value kept."""
     assert isinstance(error, RequestValidationError)
     detail = [
         problem(list(entry["loc"]), entry["msg"], entry["type"], entry.get("input"))
         for entry in error.errors()
     ]
+    if _for_a_person(request):
+        lines = "; ".join(f"{entry['loc'][-1]}: {entry['msg']}" for entry in detail)
+        return _error_page(request, 422, "That address is not right", lines)
     return JSONResponse(status_code=422, content={"detail": detail})
 
 
@@ -85,11 +88,26 @@ async def field_error_as_422(request: Request, error: Exception) -> JSONResponse
     )
 
 
-async def not_found_as_404(request: Request, error: Exception) -> JSONResponse:
+def _for_a_person(request: Request) -> bool:
+    """A page was asked for, not the API: answer with a page, never with JSON."""
+    return not request.url.path.startswith("/api/")
+
+
+def _error_page(request: Request, status: int, title: str, message: str) -> Response:
+    from service.web.pages.templating import page
+
+    return page(request, "error.html", status_code=status, title=title, message=message)
+
+
+async def not_found_as_404(request: Request, error: Exception) -> Response:
+    if _for_a_person(request):
+        return _error_page(request, 404, "Not found", f"There is {error}.")
     return JSONResponse(status_code=404, content={"detail": str(error)})
 
 
-async def conflict_as_409(request: Request, error: Exception) -> JSONResponse:
+async def conflict_as_409(request: Request, error: Exception) -> Response:
+    if _for_a_person(request):
+        return _error_page(request, 409, "Not done", str(error))
     return JSONResponse(status_code=409, content={"detail": str(error)})
 
 

@@ -1,0 +1,150 @@
+"""A technician and an energy manager, in a real browser on a tablet-sized screen."""
+
+import io
+import re
+from typing import Any
+
+import httpx
+import pytest
+from playwright.sync_api import Browser, Page, Route, expect
+from pypdf import PdfReader
+
+from service.store.database import Database
+
+TABLET_PORTRAIT = {"width": 768, "height": 1024}
+
+
+@pytest.fixture
+def tablet(browser: Browser) -> Any:
+    context = browser.new_context(viewport=TABLET_PORTRAIT, has_touch=True)
+    yield context.new_page()
+    context.close()
+
+
+def _record(page: Page, condition: str, upstream: str, downstream: str) -> None:
+    page.locator("label.condition-choice").filter(has_text=condition).click()
+    page.get_by_label("Ultrasonic and temperature").check()
+    page.get_by_label("Temperature before the trap").fill(upstream)
+    page.get_by_label("Temperature after the trap").fill(downstream)
+
+
+def test_a_technician_walks_five_traps_and_one_save_survives_a_dropped_connection(
+    live_server: tuple[str, Database], tablet: Page
+) -> None:
+    base, _ = live_server
+    tablet.goto(f"{base}/sites/1")
+    tablet.get_by_label("Name").fill("Autumn walk 2026")
+    tablet.get_by_role("button", name="Start the survey").click()
+    expect(tablet.get_by_role("heading", name="Autumn walk 2026")).to_be_visible()
+    tablet.get_by_role("link", name=re.compile("Next trap to test")).click()
+
+    found = ["Working", "Leaking", "Blowing through", "Working", "Plugged"]
+    dropped: list[str] = []
+
+    def lose_the_answer(route: Route) -> None:
+        # The save reaches the server, but its answer never reaches the tablet.
+        route.fetch()
+        dropped.append(route.request.url)
+        route.abort("connectionreset")
+
+    tags = []
+    for number, condition in enumerate(found):
+        tags.append(tablet.locator("h1 .tag").inner_text())
+        _record(tablet, condition, "176", "101")
+        if number == 2:
+            tablet.route(re.compile(r".*/walk/traps/\d+$"), lose_the_answer)
+            tablet.get_by_role("button", name=re.compile("Save and go")).click()
+            expect(tablet.locator("#save-status")).to_contain_text("Not saved")
+            tablet.unroute(re.compile(r".*/walk/traps/\d+$"))
+            # What was entered is still on the page; the same key is sent again.
+            expect(tablet.get_by_label("Temperature before the trap")).to_have_value("176")
+        with tablet.expect_navigation():
+            tablet.get_by_role("button", name=re.compile("Save and go")).click()
+        expect(tablet.get_by_role("status").first).to_contain_text("Saved on the server")
+        expect(tablet.get_by_role("status").first).to_contain_text(tags[-1])
+
+    assert len(dropped) == 1
+    survey_id = int(re.search(r"/surveys/(\d+)/", tablet.url).group(1))  # type: ignore[union-attr]
+    findings = httpx.get(f"{base}/api/v1/surveys/{survey_id}/findings").json()
+    assert findings["total"] == 5
+    assert [item["condition"] for item in findings["items"]] == [
+        "working",
+        "leaking",
+        "blow_through",
+        "working",
+        "plugged",
+    ]
+
+    summary = httpx.get(f"{base}/api/v1/sites/1/summary").json()
+    assert summary["survey"]["id"] == survey_id
+    assert summary["failed_count"] == 3
+    tablet.goto(f"{base}/sites/1/summary")
+    expect(
+        tablet.get_by_text(f"{summary['failed_count']} of {summary['traps_tested']} tested")
+    ).to_be_visible()
+    expect(tablet.locator("main")).to_contain_text(tags[2])
+
+
+def test_the_printed_report_has_every_section(
+    live_server: tuple[str, Database], browser: Browser
+) -> None:
+    base, _ = live_server
+    page = browser.new_page()
+    page.goto(f"{base}/sites/1/report")
+    document = PdfReader(io.BytesIO(page.pdf(format="A4")))
+    text = " ".join(sheet.extract_text() for sheet in document.pages)
+    for section in (
+        "Steam trap survey report",
+        "Before anyone acts on these figures",
+        "Yearly losses",
+        "Repair list",
+        "Risks",
+        "Where the money goes",
+        "Condensate lost",
+        "Assumptions and methods",
+        "Page 1 of",
+    ):
+        assert section.replace("fi", "ﬁ") in text or section in text, section
+    assert "Survey walk" not in text  # no navigation on paper
+    letter = PdfReader(io.BytesIO(page.pdf(format="Letter")))
+    assert len(letter.pages) >= 2
+    page.close()
+
+
+DEMO_PAGES = [
+    "/",
+    "/sites/1",
+    "/sites/1/summary",
+    "/sites/1/report",
+    "/sites/1/register",
+    "/traps/1",
+    "/sites/1/settings",
+    "/sites/1/import",
+    "/surveys/1/walk",
+    "/surveys/1/walk/traps/1",
+    "/surveys/1/walk/new-trap",
+    "/calculator",
+    "/calculator?calc=trap&inlet=1000&return=0&orifice=4&hours=8000&price=30",
+]
+
+
+@pytest.mark.parametrize("path", DEMO_PAGES)
+def test_no_page_scrolls_sideways_on_a_tablet(
+    live_server: tuple[str, Database], tablet: Page, path: str
+) -> None:
+    base, _ = live_server
+    tablet.goto(f"{base}{path}")
+    width = tablet.evaluate("document.documentElement.scrollWidth")
+    assert width <= TABLET_PORTRAIT["width"], f"{path} is {width} px wide"
+
+
+def test_touch_targets_are_at_least_44_px(live_server: tuple[str, Database], tablet: Page) -> None:
+    base, _ = live_server
+    tablet.goto(f"{base}/surveys/1/walk/traps/1")
+    small = tablet.evaluate(
+        """() => [...document.querySelectorAll(
+                 'main button, main .button, main .condition-choice span, main .choice')]
+           .map(e => e.getBoundingClientRect())
+           .filter(r => r.width > 0 && (r.height < 44 || r.width < 44)).length"""
+    )
+    assert small == 0
