@@ -12,13 +12,14 @@ import time
 from collections.abc import Callable
 from pathlib import Path
 
-from bench import api_load, physics, scale
+from bench import api_load, pages, physics, scale
 
 BENCHMARKS: dict[str, Callable[[Path], None]] = {
     "physics": lambda tmp: physics.run(),
     "api": api_load.run,
     "scale": scale.run,
     "writers": scale.run_writers,
+    "pages": pages.run,
 }
 
 

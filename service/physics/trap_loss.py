@@ -87,18 +87,9 @@ class TrapLoss:
     live_steam_high: YearlyLoss
     condensate: CondensateLoss
     risk: str | None  # why a plugged or flooded trap matters, else None
-
-    @property
-    def total(self) -> YearlyLoss:
-        return self.live_steam + self.condensate.total
-
-    @property
-    def total_low(self) -> YearlyLoss:
-        return self.live_steam_low + self.condensate.total
-
-    @property
-    def total_high(self) -> YearlyLoss:
-        return self.live_steam_high + self.condensate.total
+    total: YearlyLoss  # live steam and condensate together
+    total_low: YearlyLoss
+    total_high: YearlyLoss
 
 
 def loss_factor_for(
@@ -166,6 +157,10 @@ def trap_loss(service: TrapService, economics: Economics) -> TrapLoss:
         hours_per_year=service.hours_per_year,
         economics=economics,
     )
+    live_steam = per_kg_h.scaled(steam_loss.typical)
+    live_steam_low = per_kg_h.scaled(steam_loss.low)
+    live_steam_high = per_kg_h.scaled(steam_loss.high)
+    condensate = condensate_loss(service, economics)
     return TrapLoss(
         condition=condition,
         flow_regime=regime,
@@ -173,11 +168,14 @@ def trap_loss(service: TrapService, economics: Economics) -> TrapLoss:
         orifice_capacity_kg_h=capacity.typical,
         loss_factor=loss_factor,
         steam_loss_kg_h=steam_loss,
-        live_steam=per_kg_h.scaled(steam_loss.typical),
-        live_steam_low=per_kg_h.scaled(steam_loss.low),
-        live_steam_high=per_kg_h.scaled(steam_loss.high),
-        condensate=condensate_loss(service, economics),
+        live_steam=live_steam,
+        live_steam_low=live_steam_low,
+        live_steam_high=live_steam_high,
+        condensate=condensate,
         risk=RISK_NOTES.get(condition),
+        total=live_steam + condensate.total,
+        total_low=live_steam_low + condensate.total,
+        total_high=live_steam_high + condensate.total,
     )
 
 

@@ -9,6 +9,7 @@ from sqlalchemy import select
 from sqlalchemy.orm import Session
 
 from service.physics.conditions import TrapCondition
+from service.reports.pricing import SitePricing
 from service.reports.summary import PricedTrap, SiteSummary, site_summary
 from service.store.models import Repair, Site, Survey, Trap
 
@@ -86,14 +87,22 @@ def _change(before: PricedTrap | None, after: PricedTrap | None) -> Change | Non
 
 
 def compare_surveys(
-    *, session: Session, site: Site, before: Survey, after: Survey
+    *,
+    session: Session,
+    site: Site,
+    before: Survey,
+    after: Survey,
+    after_summary: SiteSummary | None = None,
+    pricing: SitePricing | None = None,
 ) -> SurveyComparison:
     """Trap by trap from `before` to `after`: newly failed, repaired and confirmed by a
     working finding, working again with no repair on record, still failed, or failed
-    and not tested since."""
+    and not tested since. A caller that has the later summary already passes it."""
+    pricing = pricing or SitePricing.of(site)
     comparison = SurveyComparison(
-        before=site_summary(session=session, site=site, survey=before),
-        after=site_summary(session=session, site=site, survey=after),
+        before=site_summary(session=session, site=site, survey=before, pricing=pricing),
+        after=after_summary
+        or site_summary(session=session, site=site, survey=after, pricing=pricing),
     )
     earlier = {priced.trap_id: priced for priced in comparison.before.priced}
     later = {priced.trap_id: priced for priced in comparison.after.priced}

@@ -4,13 +4,19 @@ The same conversion `POST /api/v1/calc/trap-loss` makes from its request, so tha
 trap in a summary and the same trap priced by hand give the same figures.
 """
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 from service.physics.annual import Economics
 from service.physics.conditions import TrapCondition, wastes_live_steam
 from service.physics.pressure import absolute_from_gauge
 from service.physics.spread import Spread
-from service.physics.trap_loss import CondensateDestination, TrapService, loss_factor_for
+from service.physics.trap_loss import (
+    CondensateDestination,
+    TrapLoss,
+    TrapService,
+    loss_factor_for,
+    trap_loss,
+)
 from service.store.models import Site
 from service.store.vocabulary import CostBasis
 
@@ -30,13 +36,24 @@ def economics_of(site: Site) -> Economics:
 
 @dataclass(frozen=True, slots=True)
 class SitePricing:
-    """A site's settings, read once, as the calculation core takes them."""
+    """A site's settings, read once, as the calculation core takes them; and the losses
+    it has priced, so that traps alike in every input (same pressures, orifice, load,
+    hours and condition: common along one header, and from one survey to the next)
+    are priced once however many summaries share it."""
 
     atmospheric_pressure_kpa: float
     hours_per_year: float
     economics: Economics
     discharge_coefficient: Spread
     loss_factors: dict[TrapCondition, Spread]
+    priced: dict[TrapService, TrapLoss] = field(default_factory=dict)
+
+    def loss(self, service: TrapService) -> TrapLoss:
+        """The trap's yearly loss at this site."""
+        loss = self.priced.get(service)
+        if loss is None:
+            loss = self.priced[service] = trap_loss(service, self.economics)
+        return loss
 
     @classmethod
     def of(cls, site: Site) -> "SitePricing":

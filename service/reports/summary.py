@@ -14,7 +14,7 @@ from sqlalchemy.orm import Session
 
 from service.physics.annual import YearlyLoss
 from service.physics.conditions import TrapCondition, is_failed, is_flooding_risk
-from service.physics.trap_loss import CondensateDestination, TrapLoss, TrapService, trap_loss
+from service.physics.trap_loss import CondensateDestination, TrapLoss, TrapService
 from service.reports.pricing import SitePricing
 from service.store.latest import is_latest_finding
 from service.store.models import Area, Finding, Repair, Site, Survey, Trap
@@ -70,9 +70,7 @@ class PricedTrap:
     repair_cost: float | None
     repaired_on: dt.date | None  # a repair since the finding, awaiting its confirming test
 
-    @property
-    def failed(self) -> bool:
-        return is_failed(self.condition)
+    failed: bool  # needs repair: wastes steam or floods the equipment
 
     @property
     def yearly_cost(self) -> float:
@@ -286,22 +284,11 @@ def summary_rows(session: Session, site: Site, survey: Survey | None) -> list[Su
     return [SummaryRow._make(row) for row in session.execute(query)]
 
 
-def _loss_of(
-    service: TrapService, pricing: SitePricing, losses: dict[TrapService, TrapLoss]
-) -> TrapLoss:
-    """The trap's loss, computed once for every trap alike in all its inputs."""
-    loss = losses.get(service)
-    if loss is None:
-        loss = losses[service] = trap_loss(service, pricing.economics)
-    return loss
-
-
 def _priced(
     site: Site,
     pricing: SitePricing,
     row: SummaryRow,
     repaired_on: dt.date | None,
-    losses: dict[TrapService, TrapLoss],
 ) -> PricedTrap:
     # A finding's columns are all NOT NULL: with its id present, so are the others.
     assert row.finding_id is not None
@@ -333,10 +320,10 @@ def _priced(
         recommended_action=row.recommended_action,
         loss_factor_override=row.loss_factor_override,
         service=service,
-        loss=losses.get(service)
-        or losses.setdefault(service, trap_loss(service, pricing.economics)),
+        loss=pricing.loss(service),
         repair_kind=kind,
         repair_cost=cost,
+        failed=is_failed(row.condition),
         repaired_on=repaired_on
         if repaired_on is not None and repaired_on >= row.tested_at.date()
         else None,
@@ -353,24 +340,25 @@ def _tally_of(tallies: dict[Key, Tally], key: Key) -> Tally:
     return tally
 
 
-def site_summary(*, session: Session, site: Site, survey: Survey | None) -> SiteSummary:
+def site_summary(
+    *, session: Session, site: Site, survey: Survey | None, pricing: SitePricing | None = None
+) -> SiteSummary:
     """The survey's findings at the site, each trap priced, then rolled up.
 
-    Traps alike in every input (same pressures, orifice, load, hours and condition,
-    common on one header) are priced once. Sums go first into one tally per
-    (condition, area, application); the breakdowns and totals are sums of those.
+    Summaries of one site may share a `pricing`, which prices traps alike once. Sums go
+    first into one tally per (condition, area, application); the breakdowns and the
+    totals are sums of those.
     """
     summary = SiteSummary(site=site, survey=survey)
-    pricing = SitePricing.of(site)
+    pricing = pricing or SitePricing.of(site)
     repaired = _repairs_since(session, site)
-    losses: dict[TrapService, TrapLoss] = {}
     cells: dict[tuple[TrapCondition, str, Application], Tally] = {}
     for row in summary_rows(session, site, survey):
         summary.traps_in_service += row.in_service
         if row.finding_id is None:
             summary.traps_untested += 1
             continue
-        priced = _priced(site, pricing, row, repaired.get(row.trap_id), losses)
+        priced = _priced(site, pricing, row, repaired.get(row.trap_id))
         summary.priced.append(priced)
         _tally_of(cells, (priced.condition, priced.area_name, priced.application)).add(priced)
     for (condition, area_name, application), cell in cells.items():

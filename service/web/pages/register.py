@@ -9,7 +9,6 @@ from fastapi.responses import HTMLResponse
 from sqlalchemy import select
 
 from service.physics.conditions import TrapCondition
-from service.physics.trap_loss import trap_loss
 from service.reports.pricing import SitePricing
 from service.store import register, surveys
 from service.store.latest import latest_conditions
@@ -114,7 +113,7 @@ def trap_page(request: Request, trap_id: int, db: Db) -> HTMLResponse:
                 condition=latest.condition,
                 loss_factor_override=latest.loss_factor_override,
             )
-            loss = trap_loss(service, pricing.economics)
+            loss = pricing.loss(service)
         return page(
             request,
             "trap.html",

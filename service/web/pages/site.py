@@ -13,6 +13,7 @@ from service.physics.conditions import TrapCondition
 from service.physics.units import Dimension, UnitSystem
 from service.reports.compare import compare_surveys
 from service.reports.exports import repair_list_csv, repair_list_table, xlsx_bytes
+from service.reports.pricing import SitePricing
 from service.reports.schemas import ComparisonOut, SummaryOut
 from service.reports.summary import site_summary
 from service.store import exports, register, surveys
@@ -47,15 +48,29 @@ def _previous(session: Session, site: Site, survey: Survey | None) -> Survey | N
     return earlier[0] if earlier else None
 
 
-def summary_context(session: Session, site: Site, survey: Survey | None) -> dict[str, Any]:
+SCREEN_ROWS = 100  # rows of a list on screen; the downloads and the report hold them all
+
+
+def summary_context(
+    session: Session, site: Site, survey: Survey | None, row_limit: int | None = SCREEN_ROWS
+) -> dict[str, Any]:
     """Everything the summary, the report and the site home show: one context."""
-    summary = SummaryOut.of(site_summary(session=session, site=site, survey=survey))
+    pricing = SitePricing.of(site)
+    rolled_up = site_summary(session=session, site=site, survey=survey, pricing=pricing)
+    summary = SummaryOut.of(rolled_up)
     previous = _previous(session, site, survey)
-    comparison = (
-        ComparisonOut.of(compare_surveys(session=session, site=site, before=previous, after=survey))
-        if previous is not None and survey is not None
-        else None
-    )
+    comparison = None
+    if previous is not None and survey is not None:
+        comparison = ComparisonOut.of(
+            compare_surveys(
+                session=session,
+                site=site,
+                before=previous,
+                after=survey,
+                after_summary=rolled_up,
+                pricing=pricing,
+            )
+        )
     return {
         "summary": summary,
         "comparison": comparison,
@@ -66,6 +81,7 @@ def summary_context(session: Session, site: Site, survey: Survey | None) -> dict
             key=lambda item: (item.payback_years is None, item.payback_years or 0.0),
         ),
         "today": dt.date.today(),
+        "row_limit": row_limit,
     }
 
 
@@ -142,7 +158,9 @@ def summary_page(
 def report_page(request: Request, site_id: int, db: Db, survey_id: SurveyId = None) -> HTMLResponse:
     with db.reading() as session:
         site = get(session, Site, site_id)
-        context = summary_context(session, site, survey_choice(session, site, survey_id))
+        context = summary_context(
+            session, site, survey_choice(session, site, survey_id), row_limit=None
+        )
         return page(request, "report.html", site=site, **context)
 
 

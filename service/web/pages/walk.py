@@ -8,9 +8,9 @@ back from the database and says so: that is what "reached the server" means here
 
 import datetime as dt
 import uuid
-from typing import Any
+from typing import Annotated, Any
 
-from fastapi import APIRouter, Request
+from fastapi import APIRouter, Query, Request
 from fastapi.responses import HTMLResponse, RedirectResponse, Response
 from pydantic import ValidationError
 from sqlalchemy.orm import Session
@@ -56,8 +56,17 @@ def site_walk(site_id: int, db: Db) -> Response:
     return RedirectResponse(target, status_code=303)
 
 
+ROUTE_PAGE = 60  # rows of the route on one page: light enough for a tablet on poor Wi-Fi
+
+
 @router.get("/surveys/{survey_id}/walk", response_class=HTMLResponse)
-def walk(request: Request, survey_id: int, db: Db, area: str | None = None) -> HTMLResponse:
+def walk(
+    request: Request,
+    survey_id: int,
+    db: Db,
+    area: str | None = None,
+    offset: Annotated[int, Query(ge=0)] = 0,
+) -> HTMLResponse:
     with db.reading() as session:
         survey = get(session, Survey, survey_id)
         site = get(session, Site, survey.site_id)
@@ -70,11 +79,14 @@ def walk(request: Request, survey_id: int, db: Db, area: str | None = None) -> H
             "walk.html",
             site=site,
             survey=survey,
-            route=shown,
+            route=shown[offset : offset + ROUTE_PAGE],
             areas=areas,
             area=area or "",
             done=done,
             total=len(route),
+            shown=len(shown),
+            offset=offset,
+            page_size=ROUTE_PAGE,
             next_trap=_next_untested(shown, None),
         )
 
