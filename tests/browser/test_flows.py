@@ -129,13 +129,19 @@ DEMO_PAGES = [
 
 
 @pytest.mark.parametrize("path", DEMO_PAGES)
-def test_no_page_scrolls_sideways_on_a_tablet(
+def test_no_page_scrolls_sideways_on_a_tablet_or_breaks_its_policy(
     live_server: tuple[str, Database], tablet: Page, path: str
 ) -> None:
     base, _ = live_server
+    complaints: list[str] = []
+    tablet.on(
+        "console",
+        lambda message: complaints.append(message.text) if message.type == "error" else None,
+    )
     tablet.goto(f"{base}{path}")
     width = tablet.evaluate("document.documentElement.scrollWidth")
     assert width <= TABLET_PORTRAIT["width"], f"{path} is {width} px wide"
+    assert complaints == [], complaints  # e.g. a Content-Security-Policy violation
 
 
 def test_touch_targets_are_at_least_44_px(live_server: tuple[str, Database], tablet: Page) -> None:

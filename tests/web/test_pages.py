@@ -340,3 +340,29 @@ def test_the_register_and_a_traps_page(api: TestClient, demo: dict[str, Any]) ->
     assert page.context["loss"].total.cost == pytest.approx(item["annual_total_cost"])  # type: ignore[attr-defined]
     assert "Findings and repairs, newest first" in page.text
     assert api.get(f"/sites/{site_id}/register", params={"offset": 50}).status_code == 200
+
+
+def test_every_answer_carries_the_security_headers(client: TestClient) -> None:
+    for path in ("/calculator", "/api/v1/health", "/static/traptally.css"):
+        headers = client.get(path).headers
+        policy = headers["content-security-policy"]
+        assert "script-src 'self'" in policy
+        assert "unsafe-inline" not in policy
+        for part in ("object-src 'none'", "base-uri 'none'", "frame-ancestors 'none'"):
+            assert part in policy
+        assert headers["x-content-type-options"] == "nosniff"
+        assert headers["referrer-policy"] == "same-origin"
+        assert "strict-transport-security" not in headers
+    secure = TestClient(client.app, base_url="https://testserver").get("/api/v1/health")
+    assert secure.headers["strict-transport-security"].startswith("max-age=")
+
+
+def test_the_route_is_paged(api: TestClient, demo: dict[str, Any]) -> None:
+    survey_id = demo["latest"]["id"]
+    first = api.get(f"/surveys/{survey_id}/walk")
+    assert "Further on the route (61 to 120 of 204)" in first.text
+    later = api.get(f"/surveys/{survey_id}/walk", params={"offset": 180})
+    assert "Earlier on the route" in later.text
+    assert len(later.context["route"]) == 24  # type: ignore[attr-defined]
+    one_area = api.get(f"/surveys/{survey_id}/walk", params={"area": "Finishing and warehouse"})
+    assert all(row.area_name == "Finishing and warehouse" for row in one_area.context["route"])  # type: ignore[attr-defined]
