@@ -8,20 +8,11 @@ import math
 from dataclasses import dataclass
 
 from service.physics.pressure import STANDARD_ATMOSPHERE_KPA
-from service.physics.units import Dimension, UnitSystem, convert, display_unit
+from service.physics.units import DISPLAY_UNITS, Dimension, UnitSystem, convert, display_unit
 
 CURRENCY_SIGNS = {"GBP": "£", "EUR": "€", "USD": "$", "CAD": "CA$", "AUD": "A$", "JPY": "¥"}
-_PROGRAM_UNITS = {
-    Dimension.PRESSURE: "kPa(g)",
-    Dimension.TEMPERATURE: "°C",
-    Dimension.MASS_FLOW: "kg/h",
-    Dimension.LENGTH: "mm",
-    Dimension.MASS: "t",
-    Dimension.ENERGY: "GJ",
-    Dimension.PRICE_PER_MASS: "per t",
-    Dimension.PRICE_PER_ENERGY: "per GJ",
-    Dimension.EMISSION_FACTOR: "kg/GJ",
-}
+# The program's own units are the SI display set (kPa(g), °C, kg/h, mm, t, GJ, ...).
+_PROGRAM_UNITS = DISPLAY_UNITS[UnitSystem.SI]
 # Significant figures worth showing: the estimates are good to two or three at best.
 _DECIMALS = {
     Dimension.PRESSURE: 0,
