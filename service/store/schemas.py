@@ -80,6 +80,7 @@ Atmosphere = Annotated[float, Field(gt=50.0, le=110.0)]
 Currency = Annotated[str, StringConstraints(pattern=r"^[A-Z]{3}$")]
 SurfaceTemperature = Annotated[float, Field(ge=-60.0, le=450.0)]
 RoutePosition = Annotated[int, Field(ge=0, le=10_000_000)]
+RecordId = Annotated[int, Field(ge=1, le=2_147_483_647)]  # 32-bit ids on every database
 
 # Illustrative defaults in the site's currency, no published source: every site should
 # set its own from its purchase prices and labour rates.
@@ -257,7 +258,7 @@ class TrapCreate(StrictInput):
     """One trap of the register. Pressures are gauge, against the site's atmosphere."""
 
     tag: Tag
-    area_id: int | None = None
+    area_id: RecordId | None = None
     location: ShortText = ""
     route_position: RoutePosition | None = None
     application: Application
@@ -289,7 +290,7 @@ class TrapUpdate(StrictInput):
     """Any of a trap's fields; the merged trap is checked as a whole, as on creation."""
 
     tag: Tag | None = None
-    area_id: int | None = None
+    area_id: RecordId | None = None
     location: ShortText | None = None
     route_position: RoutePosition | None = None
     application: Application | None = None
@@ -361,7 +362,7 @@ class SurveyOut(StoredOut):
 class FindingCreate(StrictInput):
     """One test of one trap. A moment without a time zone is taken as UTC."""
 
-    trap_id: int
+    trap_id: RecordId
     tested_at: dt.datetime
     tested_by: Annotated[str, StringConstraints(max_length=80)] = ""
     method: TestMethod
@@ -403,7 +404,7 @@ class FindingUpdate(StrictInput):
 class FindingOut(StoredOut):
     id: int
     survey_id: int
-    trap_id: int
+    trap_id: RecordId
     tested_at: dt.datetime
     tested_by: str
     method: TestMethod

@@ -3,13 +3,24 @@
 from dataclasses import dataclass
 from typing import Annotated, Any, Generic, TypeVar
 
-from fastapi import Depends, Query, Request
+from fastapi import Depends, Path, Query, Request
 from pydantic import BaseModel
 
 from service.store.database import Database
 from service.store.records import Page
 
 T = TypeVar("T")
+
+# Record ids are 32-bit integers on every database; a larger one names no record.
+MAX_RECORD_ID = 2_147_483_647
+RecordId = Annotated[int, Path(ge=1, le=MAX_RECORD_ID)]
+RecordIdQuery = Annotated[int, Query(ge=1, le=MAX_RECORD_ID)]
+OptionalRecordIdQuery = Annotated[int | None, Query(ge=1, le=MAX_RECORD_ID)]
+
+
+def record_id(text: str) -> int | None:
+    """A typed id from a form or filter, or None where it is none (blank, junk, too large)."""
+    return int(text) if text.isdigit() and 0 < int(text) <= MAX_RECORD_ID else None
 
 
 def database(request: Request) -> Database:

@@ -10,7 +10,7 @@ from service.store import surveys
 from service.store.models import Finding, Survey, Trap
 from service.store.records import get
 from service.store.schemas import FindingCreate, FindingOut, FindingUpdate
-from service.web.dependencies import Db, PageOut, PagingDep
+from service.web.dependencies import Db, OptionalRecordIdQuery, PageOut, PagingDep, RecordId
 
 router = APIRouter(tags=["findings"])
 
@@ -33,7 +33,7 @@ IdempotencyKey = Annotated[
     summary="Record a finding (idempotent with an Idempotency-Key header)",
 )
 def record_finding(
-    survey_id: int,
+    survey_id: RecordId,
     body: FindingCreate,
     db: Db,
     response: Response,
@@ -52,11 +52,11 @@ def record_finding(
 
 @router.get("/surveys/{survey_id}/findings", summary="A survey's findings, oldest first")
 def survey_findings(
-    survey_id: int,
+    survey_id: RecordId,
     db: Db,
     paging: PagingDep,
     condition: TrapCondition | None = None,
-    area_id: int | None = None,
+    area_id: OptionalRecordIdQuery = None,
     tag_prefix: Annotated[str | None, Query(max_length=40)] = None,
 ) -> PageOut[FindingOut]:
     where = surveys.FindingFilter(condition=condition, area_id=area_id, tag_prefix=tag_prefix)
@@ -69,7 +69,7 @@ def survey_findings(
 
 
 @router.get("/traps/{trap_id}/findings", summary="A trap's findings, oldest first")
-def trap_findings(trap_id: int, db: Db, paging: PagingDep) -> PageOut[FindingOut]:
+def trap_findings(trap_id: RecordId, db: Db, paging: PagingDep) -> PageOut[FindingOut]:
     with db.reading() as session:
         trap = get(session, Trap, trap_id)
         page = surveys.list_findings(
@@ -79,13 +79,13 @@ def trap_findings(trap_id: int, db: Db, paging: PagingDep) -> PageOut[FindingOut
 
 
 @router.get("/findings/{finding_id}", summary="One finding")
-def read_finding(finding_id: int, db: Db) -> FindingOut:
+def read_finding(finding_id: RecordId, db: Db) -> FindingOut:
     with db.reading() as session:
         return FindingOut.model_validate(get(session, Finding, finding_id))
 
 
 @router.patch("/findings/{finding_id}", summary="Correct a finding")
-def update_finding(finding_id: int, body: FindingUpdate, db: Db) -> FindingOut:
+def update_finding(finding_id: RecordId, body: FindingUpdate, db: Db) -> FindingOut:
     with db.writing() as session:
         finding = get(session, Finding, finding_id)
         changes = body.model_dump(exclude_unset=True)
@@ -97,7 +97,7 @@ def update_finding(finding_id: int, body: FindingUpdate, db: Db) -> FindingOut:
 @router.delete(
     "/findings/{finding_id}", status_code=204, summary="Delete a finding entered by mistake"
 )
-def delete_finding(finding_id: int, db: Db) -> Response:
+def delete_finding(finding_id: RecordId, db: Db) -> Response:
     with db.writing() as session:
         session.delete(get(session, Finding, finding_id))
     return Response(status_code=204)

@@ -6,13 +6,13 @@ from service.store import surveys
 from service.store.models import Repair, Trap
 from service.store.records import get
 from service.store.schemas import RepairCreate, RepairOut, RepairUpdate
-from service.web.dependencies import Db, PageOut, PagingDep
+from service.web.dependencies import Db, PageOut, PagingDep, RecordId
 
 router = APIRouter(tags=["repairs"])
 
 
 @router.post("/traps/{trap_id}/repairs", status_code=201, summary="Record a repair")
-def record_repair(trap_id: int, body: RepairCreate, db: Db) -> RepairOut:
+def record_repair(trap_id: RecordId, body: RepairCreate, db: Db) -> RepairOut:
     with db.writing() as session:
         trap = get(session, Trap, trap_id)
         return RepairOut.model_validate(
@@ -21,7 +21,7 @@ def record_repair(trap_id: int, body: RepairCreate, db: Db) -> RepairOut:
 
 
 @router.get("/traps/{trap_id}/repairs", summary="A trap's repairs, oldest first")
-def trap_repairs(trap_id: int, db: Db, paging: PagingDep) -> PageOut[RepairOut]:
+def trap_repairs(trap_id: RecordId, db: Db, paging: PagingDep) -> PageOut[RepairOut]:
     with db.reading() as session:
         trap = get(session, Trap, trap_id)
         return PageOut.of(
@@ -33,13 +33,13 @@ def trap_repairs(trap_id: int, db: Db, paging: PagingDep) -> PageOut[RepairOut]:
 
 
 @router.get("/repairs/{repair_id}", summary="One repair")
-def read_repair(repair_id: int, db: Db) -> RepairOut:
+def read_repair(repair_id: RecordId, db: Db) -> RepairOut:
     with db.reading() as session:
         return RepairOut.model_validate(get(session, Repair, repair_id))
 
 
 @router.patch("/repairs/{repair_id}", summary="Correct a repair")
-def update_repair(repair_id: int, body: RepairUpdate, db: Db) -> RepairOut:
+def update_repair(repair_id: RecordId, body: RepairUpdate, db: Db) -> RepairOut:
     with db.writing() as session:
         repair = get(session, Repair, repair_id)
         changes = body.model_dump(exclude_unset=True)
@@ -51,7 +51,7 @@ def update_repair(repair_id: int, body: RepairUpdate, db: Db) -> RepairOut:
 @router.delete(
     "/repairs/{repair_id}", status_code=204, summary="Delete a repair entered by mistake"
 )
-def delete_repair(repair_id: int, db: Db) -> Response:
+def delete_repair(repair_id: RecordId, db: Db) -> Response:
     with db.writing() as session:
         session.delete(get(session, Repair, repair_id))
     return Response(status_code=204)

@@ -15,7 +15,7 @@ from service.store.models import Site, Survey
 from service.store.records import get, paged
 from service.store.schemas import SiteCreate, SiteOut, SiteUpdate
 from service.store.surveys import latest_survey
-from service.web.dependencies import Db, PageOut, PagingDep
+from service.web.dependencies import MAX_RECORD_ID, Db, PageOut, PagingDep, RecordId, RecordIdQuery
 
 router = APIRouter(tags=["sites"])
 
@@ -36,13 +36,13 @@ def list_sites(db: Db, paging: PagingDep) -> PageOut[SiteOut]:
 
 
 @router.get("/sites/{site_id}", summary="One site and its settings")
-def read_site(site_id: int, db: Db) -> SiteOut:
+def read_site(site_id: RecordId, db: Db) -> SiteOut:
     with db.reading() as session:
         return SiteOut.model_validate(get(session, Site, site_id))
 
 
 @router.patch("/sites/{site_id}", summary="Change a site's settings")
-def update_site(site_id: int, body: SiteUpdate, db: Db) -> SiteOut:
+def update_site(site_id: RecordId, body: SiteUpdate, db: Db) -> SiteOut:
     with db.writing() as session:
         site = get(session, Site, site_id)
         changes = body.model_dump(exclude_unset=True)
@@ -52,7 +52,7 @@ def update_site(site_id: int, body: SiteUpdate, db: Db) -> SiteOut:
 
 
 @router.delete("/sites/{site_id}", status_code=204, summary="Delete a site with no traps")
-def delete_site(site_id: int, db: Db) -> Response:
+def delete_site(site_id: RecordId, db: Db) -> Response:
     with db.writing() as session:
         register.delete_site(session=session, site=get(session, Site, site_id))
     return Response(status_code=204)
@@ -68,9 +68,12 @@ def survey_of_site(session: Session, site: Site, survey_id: int) -> Survey:
 
 @router.get("/sites/{site_id}/summary", summary="A survey priced and rolled up")
 def summary(
-    site_id: int,
+    site_id: RecordId,
     db: Db,
-    survey_id: Annotated[int | None, Query(description="Default: the latest survey")] = None,
+    survey_id: Annotated[
+        int | None,
+        Query(ge=1, le=MAX_RECORD_ID, description="Default: the latest survey"),
+    ] = None,
 ) -> SummaryOut:
     with db.reading() as session:
         site = get(session, Site, site_id)
@@ -83,7 +86,9 @@ def summary(
 
 
 @router.get("/sites/{site_id}/compare", summary="What changed from one survey to another")
-def compare(site_id: int, from_survey: int, to_survey: int, db: Db) -> ComparisonOut:
+def compare(
+    site_id: RecordId, from_survey: RecordIdQuery, to_survey: RecordIdQuery, db: Db
+) -> ComparisonOut:
     with db.reading() as session:
         site = get(session, Site, site_id)
         before = survey_of_site(session, site, from_survey)

@@ -6,13 +6,13 @@ from service.store import surveys
 from service.store.models import Site, Survey
 from service.store.records import Page, get
 from service.store.schemas import SurveyCreate, SurveyOut, SurveyUpdate
-from service.web.dependencies import Db, PageOut, PagingDep
+from service.web.dependencies import Db, PageOut, PagingDep, RecordId
 
 router = APIRouter(tags=["surveys"])
 
 
 @router.post("/sites/{site_id}/surveys", status_code=201, summary="Start a survey round")
-def create_survey(site_id: int, body: SurveyCreate, db: Db) -> SurveyOut:
+def create_survey(site_id: RecordId, body: SurveyCreate, db: Db) -> SurveyOut:
     with db.writing() as session:
         site = get(session, Site, site_id)
         return SurveyOut.model_validate(
@@ -21,7 +21,7 @@ def create_survey(site_id: int, body: SurveyCreate, db: Db) -> SurveyOut:
 
 
 @router.get("/sites/{site_id}/surveys", summary="A site's surveys, newest first")
-def list_surveys(site_id: int, db: Db, paging: PagingDep) -> PageOut[SurveyOut]:
+def list_surveys(site_id: RecordId, db: Db, paging: PagingDep) -> PageOut[SurveyOut]:
     with db.reading() as session:
         found = surveys.surveys_of(session=session, site=get(session, Site, site_id))
         window = found[paging.offset : paging.offset + paging.limit]
@@ -29,13 +29,13 @@ def list_surveys(site_id: int, db: Db, paging: PagingDep) -> PageOut[SurveyOut]:
 
 
 @router.get("/surveys/{survey_id}", summary="One survey")
-def read_survey(survey_id: int, db: Db) -> SurveyOut:
+def read_survey(survey_id: RecordId, db: Db) -> SurveyOut:
     with db.reading() as session:
         return SurveyOut.model_validate(get(session, Survey, survey_id))
 
 
 @router.patch("/surveys/{survey_id}", summary="Change a survey")
-def update_survey(survey_id: int, body: SurveyUpdate, db: Db) -> SurveyOut:
+def update_survey(survey_id: RecordId, body: SurveyUpdate, db: Db) -> SurveyOut:
     with db.writing() as session:
         survey = get(session, Survey, survey_id)
         changes = body.model_dump(exclude_unset=True)
@@ -45,7 +45,7 @@ def update_survey(survey_id: int, body: SurveyUpdate, db: Db) -> SurveyOut:
 
 
 @router.delete("/surveys/{survey_id}", status_code=204, summary="Delete a survey with no findings")
-def delete_survey(survey_id: int, db: Db) -> Response:
+def delete_survey(survey_id: RecordId, db: Db) -> Response:
     with db.writing() as session:
         surveys.delete_survey(session=session, survey=get(session, Survey, survey_id))
     return Response(status_code=204)

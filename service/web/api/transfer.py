@@ -19,7 +19,7 @@ from service.store.models import Site, Survey
 from service.store.records import get
 from service.store.surveys import latest_survey
 from service.web.api.sites import survey_of_site
-from service.web.dependencies import Db
+from service.web.dependencies import Db, OptionalRecordIdQuery, RecordId
 
 router = APIRouter(tags=["import and export"])
 
@@ -131,7 +131,7 @@ RESPONSES: dict[int | str, dict[str, Any]] = {
     response_model=None,
 )
 async def import_register(
-    site_id: int, request: Request, db: Db, commit: Commit = False
+    site_id: RecordId, request: Request, db: Db, commit: Commit = False
 ) -> JSONResponse:
     def plan(session: Session, content: bytes) -> imports.ImportPlan[Any]:
         return imports.plan_register(
@@ -152,7 +152,7 @@ async def import_register(
     response_model=None,
 )
 async def import_findings(
-    survey_id: int, request: Request, db: Db, commit: Commit = False
+    survey_id: RecordId, request: Request, db: Db, commit: Commit = False
 ) -> JSONResponse:
     def plan(session: Session, content: bytes) -> imports.ImportPlan[Any]:
         survey = get(session, Survey, survey_id)
@@ -172,7 +172,7 @@ async def import_findings(
     response_model=None,
 )
 async def import_repairs(
-    site_id: int, request: Request, db: Db, commit: Commit = False
+    site_id: RecordId, request: Request, db: Db, commit: Commit = False
 ) -> JSONResponse:
     def plan(session: Session, content: bytes) -> imports.ImportPlan[Any]:
         return imports.plan_repairs(
@@ -204,7 +204,7 @@ CSV_RESPONSE: dict[int | str, dict[str, Any]] = {
     response_class=Response,
     responses=CSV_RESPONSE,
 )
-def export_register(site_id: int, db: Db) -> Response:
+def export_register(site_id: RecordId, db: Db) -> Response:
     with db.reading() as session:
         site = get(session, Site, site_id)
         return _csv_response(exports.register_csv(session=session, site=site), "register.csv")
@@ -216,7 +216,7 @@ def export_register(site_id: int, db: Db) -> Response:
     response_class=Response,
     responses=CSV_RESPONSE,
 )
-def export_findings(survey_id: int, db: Db) -> Response:
+def export_findings(survey_id: RecordId, db: Db) -> Response:
     with db.reading() as session:
         survey = get(session, Survey, survey_id)
         return _csv_response(exports.findings_csv(session=session, survey=survey), "findings.csv")
@@ -228,7 +228,7 @@ def export_findings(survey_id: int, db: Db) -> Response:
     response_class=Response,
     responses=CSV_RESPONSE,
 )
-def export_repairs(site_id: int, db: Db) -> Response:
+def export_repairs(site_id: RecordId, db: Db) -> Response:
     with db.reading() as session:
         site = get(session, Site, site_id)
         return _csv_response(exports.repairs_csv(session=session, site=site), "repairs.csv")
@@ -240,7 +240,9 @@ def export_repairs(site_id: int, db: Db) -> Response:
     response_class=Response,
     responses=CSV_RESPONSE,
 )
-def export_repair_list(site_id: int, db: Db, survey_id: int | None = None) -> Response:
+def export_repair_list(
+    site_id: RecordId, db: Db, survey_id: OptionalRecordIdQuery = None
+) -> Response:
     with db.reading() as session:
         site = get(session, Site, site_id)
         survey = (

@@ -11,7 +11,7 @@ from service.store.models import Site, Trap
 from service.store.records import get
 from service.store.schemas import TrapCreate, TrapOut, TrapUpdate
 from service.store.vocabulary import Application, TrapType
-from service.web.dependencies import Db, PageOut, PagingDep
+from service.web.dependencies import Db, OptionalRecordIdQuery, PageOut, PagingDep, RecordId
 
 router = APIRouter(tags=["traps"])
 
@@ -25,7 +25,7 @@ class TrapRemoved(BaseModel):
 
 
 @router.post("/sites/{site_id}/traps", status_code=201, summary="Add a trap to the register")
-def create_trap(site_id: int, body: TrapCreate, db: Db) -> TrapOut:
+def create_trap(site_id: RecordId, body: TrapCreate, db: Db) -> TrapOut:
     with db.writing() as session:
         site = get(session, Site, site_id)
         return TrapOut.model_validate(register.create_trap(session=session, site=site, data=body))
@@ -33,10 +33,10 @@ def create_trap(site_id: int, body: TrapCreate, db: Db) -> TrapOut:
 
 @router.get("/sites/{site_id}/traps", summary="The register, in route order")
 def list_traps(
-    site_id: int,
+    site_id: RecordId,
     db: Db,
     paging: PagingDep,
-    area_id: int | None = None,
+    area_id: OptionalRecordIdQuery = None,
     condition: Annotated[
         TrapCondition | None, Query(description="Latest finding's condition")
     ] = None,
@@ -62,13 +62,13 @@ def list_traps(
 
 
 @router.get("/traps/{trap_id}", summary="One trap")
-def read_trap(trap_id: int, db: Db) -> TrapOut:
+def read_trap(trap_id: RecordId, db: Db) -> TrapOut:
     with db.reading() as session:
         return TrapOut.model_validate(get(session, Trap, trap_id))
 
 
 @router.patch("/traps/{trap_id}", summary="Change a trap")
-def update_trap(trap_id: int, body: TrapUpdate, db: Db) -> TrapOut:
+def update_trap(trap_id: RecordId, body: TrapUpdate, db: Db) -> TrapOut:
     with db.writing() as session:
         trap = get(session, Trap, trap_id)
         changes = body.model_dump(exclude_unset=True)
@@ -78,7 +78,7 @@ def update_trap(trap_id: int, body: TrapUpdate, db: Db) -> TrapOut:
 
 
 @router.delete("/traps/{trap_id}", summary="Delete a trap, or retire one that has history")
-def delete_trap(trap_id: int, db: Db) -> TrapRemoved:
+def delete_trap(trap_id: RecordId, db: Db) -> TrapRemoved:
     with db.writing() as session:
         trap = get(session, Trap, trap_id)
         deleted = register.retire_or_delete_trap(session=session, trap=trap)

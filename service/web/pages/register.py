@@ -15,7 +15,7 @@ from service.store.latest import latest_conditions
 from service.store.models import Finding, Repair, Site, Survey, Trap
 from service.store.records import get
 from service.store.vocabulary import Application, TrapType
-from service.web.dependencies import Db
+from service.web.dependencies import Db, RecordId, record_id
 from service.web.pages.templating import page
 
 router = APIRouter(include_in_schema=False)
@@ -36,7 +36,7 @@ def _choice(value: str, vocabulary: type[Word]) -> Word | None:
 @router.get("/sites/{site_id}/register", response_class=HTMLResponse)
 def register_page(
     request: Request,
-    site_id: int,
+    site_id: RecordId,
     db: Db,
     q: Annotated[str, Query(max_length=40)] = "",
     area_id: str = "",
@@ -46,7 +46,7 @@ def register_page(
     offset: Annotated[int, Query(ge=0)] = 0,
 ) -> HTMLResponse:
     where = register.TrapFilter(
-        area_id=int(area_id) if area_id.isdigit() else None,
+        area_id=record_id(area_id),
         application=_choice(application, Application),
         trap_type=_choice(trap_type, TrapType),
         condition=_choice(condition, TrapCondition),
@@ -82,7 +82,7 @@ def register_page(
 
 
 @router.get("/traps/{trap_id}", response_class=HTMLResponse)
-def trap_page(request: Request, trap_id: int, db: Db) -> HTMLResponse:
+def trap_page(request: Request, trap_id: RecordId, db: Db) -> HTMLResponse:
     with db.reading() as session:
         trap = get(session, Trap, trap_id)
         site = get(session, Site, trap.site_id)

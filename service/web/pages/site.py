@@ -23,7 +23,7 @@ from service.store.records import get
 from service.store.schemas import SurveyCreate
 from service.store.vocabulary import CostBasis
 from service.web.api.sites import survey_of_site
-from service.web.dependencies import Db
+from service.web.dependencies import MAX_RECORD_ID, Db, RecordId
 from service.web.display import Display
 from service.web.forms import Form
 from service.web.pages.templating import display_for, page
@@ -109,7 +109,7 @@ def sites(request: Request, db: Db) -> HTMLResponse:
 
 
 @router.get("/sites/{site_id}", response_class=HTMLResponse)
-def site_home(request: Request, site_id: int, db: Db) -> HTMLResponse:
+def site_home(request: Request, site_id: RecordId, db: Db) -> HTMLResponse:
     with db.reading() as session:
         site = get(session, Site, site_id)
         survey = surveys.latest_survey(session=session, site=site)
@@ -118,7 +118,7 @@ def site_home(request: Request, site_id: int, db: Db) -> HTMLResponse:
 
 
 @router.post("/sites/{site_id}/surveys", response_class=HTMLResponse)
-async def start_survey(request: Request, site_id: int, db: Db) -> Response:
+async def start_survey(request: Request, site_id: RecordId, db: Db) -> Response:
     form = await Form.of(request)
     fields = {
         "name": form.text("name"),
@@ -141,12 +141,14 @@ async def start_survey(request: Request, site_id: int, db: Db) -> Response:
         return page(request, "site_home.html", site=site, form=form, status_code=422, **context)
 
 
-SurveyId = Annotated[int | None, Query(description="Default: the latest survey")]
+SurveyId = Annotated[
+    int | None, Query(ge=1, le=MAX_RECORD_ID, description="Default: the latest survey")
+]
 
 
 @router.get("/sites/{site_id}/summary", response_class=HTMLResponse)
 def summary_page(
-    request: Request, site_id: int, db: Db, survey_id: SurveyId = None
+    request: Request, site_id: RecordId, db: Db, survey_id: SurveyId = None
 ) -> HTMLResponse:
     with db.reading() as session:
         site = get(session, Site, site_id)
@@ -155,7 +157,9 @@ def summary_page(
 
 
 @router.get("/sites/{site_id}/report", response_class=HTMLResponse)
-def report_page(request: Request, site_id: int, db: Db, survey_id: SurveyId = None) -> HTMLResponse:
+def report_page(
+    request: Request, site_id: RecordId, db: Db, survey_id: SurveyId = None
+) -> HTMLResponse:
     with db.reading() as session:
         site = get(session, Site, site_id)
         context = summary_context(
@@ -176,7 +180,9 @@ XLSX = "application/vnd.openxmlformats-officedocument.spreadsheetml.sheet"
 
 
 @router.get("/sites/{site_id}/downloads/repair-list.{suffix}")
-def repair_list_download(site_id: int, suffix: str, db: Db, survey_id: SurveyId = None) -> Response:
+def repair_list_download(
+    site_id: RecordId, suffix: str, db: Db, survey_id: SurveyId = None
+) -> Response:
     with db.reading() as session:
         site = get(session, Site, site_id)
         survey = survey_choice(session, site, survey_id)
@@ -191,7 +197,7 @@ def repair_list_download(site_id: int, suffix: str, db: Db, survey_id: SurveyId 
 
 
 @router.get("/surveys/{survey_id}/downloads/findings.{suffix}")
-def findings_download(survey_id: int, suffix: str, db: Db) -> Response:
+def findings_download(survey_id: RecordId, suffix: str, db: Db) -> Response:
     with db.reading() as session:
         survey = get(session, Survey, survey_id)
         if suffix == "csv":
@@ -339,7 +345,7 @@ def _settings_page(
 
 
 @router.get("/sites/{site_id}/settings", response_class=HTMLResponse)
-def settings_page(request: Request, site_id: int, db: Db, saved: bool = False) -> HTMLResponse:
+def settings_page(request: Request, site_id: RecordId, db: Db, saved: bool = False) -> HTMLResponse:
     with db.reading() as session:
         site = get(session, Site, site_id)
         form = Form(_settings_typed(site, display_for(site)))
@@ -351,7 +357,7 @@ class _Refused(Exception):  # noqa: N818 - the form was refused, with reasons in
 
 
 @router.post("/sites/{site_id}/settings", response_class=HTMLResponse)
-async def save_settings(request: Request, site_id: int, db: Db) -> Response:
+async def save_settings(request: Request, site_id: RecordId, db: Db) -> Response:
     form = await Form.of(request)
     try:
         with db.writing() as session:

@@ -24,7 +24,7 @@ from service.store.models import Finding, Site, Survey, Trap
 from service.store.records import get
 from service.store.schemas import FindingCreate, TrapCreate
 from service.store.vocabulary import Application, RecommendedAction, TestMethod, TrapType
-from service.web.dependencies import Db
+from service.web.dependencies import Db, OptionalRecordIdQuery, RecordId, record_id
 from service.web.forms import Form
 from service.web.pages.templating import display_for, page
 
@@ -48,7 +48,7 @@ def _next_untested(route: list[SummaryRow], after_trap_id: int | None) -> Summar
 
 
 @router.get("/sites/{site_id}/walk")
-def site_walk(site_id: int, db: Db) -> Response:
+def site_walk(site_id: RecordId, db: Db) -> Response:
     with db.reading() as session:
         site = get(session, Site, site_id)
         survey = surveys.latest_survey(session=session, site=site)
@@ -62,7 +62,7 @@ ROUTE_PAGE = 60  # rows of the route on one page: light enough for a tablet on p
 @router.get("/surveys/{survey_id}/walk", response_class=HTMLResponse)
 def walk(
     request: Request,
-    survey_id: int,
+    survey_id: RecordId,
     db: Db,
     area: str | None = None,
     offset: Annotated[int, Query(ge=0)] = 0,
@@ -140,7 +140,11 @@ def _trap_of_survey(session: Session, survey: Survey, trap_id: int) -> Trap:
 
 @router.get("/surveys/{survey_id}/walk/traps/{trap_id}", response_class=HTMLResponse)
 def finding_form(
-    request: Request, survey_id: int, trap_id: int, db: Db, saved: int | None = None
+    request: Request,
+    survey_id: RecordId,
+    trap_id: RecordId,
+    db: Db,
+    saved: OptionalRecordIdQuery = None,
 ) -> HTMLResponse:
     with db.reading() as session:
         survey = get(session, Survey, survey_id)
@@ -176,7 +180,9 @@ FORM_NAMES = {
 
 
 @router.post("/surveys/{survey_id}/walk/traps/{trap_id}", response_class=HTMLResponse)
-async def save_finding(request: Request, survey_id: int, trap_id: int, db: Db) -> Response:
+async def save_finding(
+    request: Request, survey_id: RecordId, trap_id: RecordId, db: Db
+) -> Response:
     form = await Form.of(request)
     key = form.text("idempotency_key") or None
     with db.writing() as session:
@@ -236,14 +242,14 @@ def _new_trap_page(
 
 
 @router.get("/surveys/{survey_id}/walk/new-trap", response_class=HTMLResponse)
-def new_trap_form(request: Request, survey_id: int, db: Db) -> HTMLResponse:
+def new_trap_form(request: Request, survey_id: RecordId, db: Db) -> HTMLResponse:
     with db.reading() as session:
         survey = get(session, Survey, survey_id)
         return _new_trap_page(request, session, survey, Form({}))
 
 
 @router.post("/surveys/{survey_id}/walk/new-trap", response_class=HTMLResponse)
-async def add_trap(request: Request, survey_id: int, db: Db) -> Response:
+async def add_trap(request: Request, survey_id: RecordId, db: Db) -> Response:
     form = await Form.of(request)
     with db.writing() as session:
         survey = get(session, Survey, survey_id)
@@ -251,7 +257,7 @@ async def add_trap(request: Request, survey_id: int, db: Db) -> Response:
         show = display_for(site)
         fields = {
             "tag": form.text("tag"),
-            "area_id": int(form.text("area_id")) if form.text("area_id").isdigit() else None,
+            "area_id": record_id(form.text("area_id")),
             "location": form.text("location"),
             "application": form.text("application") or None,
             "trap_type": form.text("trap_type") or None,
