@@ -25,7 +25,7 @@ from service.web.api import (
     transfer,
     traps,
 )
-from service.web.headers import security_headers
+from service.web.headers import SecurityHeaders
 from service.web.pages.templating import PROJECT
 
 API_ROUTERS = (
@@ -71,7 +71,7 @@ def create_app(database: Database | None = None) -> FastAPI:
     for router in PAGE_ROUTERS:
         app.include_router(router)
     app.mount("/static", StaticFiles(directory=PROJECT / "static"), name="static")
-    app.middleware("http")(security_headers)
+    app.add_middleware(SecurityHeaders)
     app.add_exception_handler(RequestValidationError, errors.validation_error_as_422)
     app.add_exception_handler(ValidationError, errors.pydantic_error_as_422)
     app.add_exception_handler(FieldError, errors.field_error_as_422)
