@@ -366,3 +366,42 @@ def test_the_route_is_paged(api: TestClient, demo: dict[str, Any]) -> None:
     assert len(later.context["route"]) == 24  # type: ignore[attr-defined]
     one_area = api.get(f"/surveys/{survey_id}/walk", params={"area": "Finishing and warehouse"})
     assert all(row.area_name == "Finishing and warehouse" for row in one_area.context["route"])  # type: ignore[attr-defined]
+
+
+def test_a_retry_seconds_later_is_the_same_finding_and_a_changed_one_can_follow(
+    api: TestClient, demo: dict[str, Any]
+) -> None:
+    survey = _walk_survey(api, demo["site"])
+    trap_id = api.get(f"/api/v1/sites/{demo['site']['id']}/traps", params={"limit": 1}).json()[
+        "items"
+    ][0]["id"]
+    page = api.get(f"/surveys/{survey['id']}/walk/traps/{trap_id}")
+    typed = page.context["form"].typed  # type: ignore[attr-defined]
+    fields = {
+        "idempotency_key": typed["idempotency_key"],
+        "opened_at": typed["opened_at"],
+        "condition": "leaking",
+        "method": "ultrasonic",
+    }
+    path = f"/surveys/{survey['id']}/walk/traps/{trap_id}"
+    assert api.post(path, data=fields, follow_redirects=False).status_code == 303
+    # The answer was lost; the tablet sends the same form again later: one finding.
+    assert api.post(path, data=fields, follow_redirects=False).status_code == 303
+    findings = f"/api/v1/surveys/{survey['id']}/findings"
+    assert api.get(findings).json()["total"] == 1
+    # The technician changed the condition before saving again: told, and it can follow.
+    changed = api.post(path, data={**fields, "condition": "blow_through"})
+    assert changed.status_code == 422
+    assert "reached the server before the connection dropped" in changed.text
+    fresh = changed.context["form"].typed["idempotency_key"]  # type: ignore[attr-defined]
+    assert fresh != fields["idempotency_key"]
+    again = api.post(
+        path,
+        data={**fields, "condition": "blow_through", "idempotency_key": fresh},
+        follow_redirects=False,
+    )
+    assert again.status_code == 303
+    assert [f["condition"] for f in api.get(findings).json()["items"]] == [
+        "leaking",
+        "blow_through",
+    ]

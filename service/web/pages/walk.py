@@ -127,6 +127,9 @@ def _finding_page(
 def _blank_form(request: Request) -> Form:
     typed = {name: request.cookies.get(COOKIE_PREFIX + name, "") for name in REMEMBERED}
     typed["idempotency_key"] = uuid.uuid4().hex
+    # When the form was opened: the finding's moment unless one is typed. Sent with the
+    # form, so a save retried after a dropped connection is the very same finding.
+    typed["opened_at"] = dt.datetime.now(dt.UTC).replace(microsecond=0).isoformat()
     typed.setdefault("method", "")
     return Form(typed)
 
@@ -155,7 +158,7 @@ def finding_form(
 
 def _finding_fields(form: Form, trap: Trap, site: Site) -> dict[str, Any]:
     show = display_for(site)
-    moment = form.text("tested_at")
+    moment = form.text("tested_at") or form.text("opened_at")
     return {
         "trap_id": trap.id,
         "tested_at": moment or dt.datetime.now(dt.UTC).replace(microsecond=0),
@@ -199,6 +202,15 @@ async def save_finding(
                 )
             except (ValidationError, FieldError) as error:
                 form.absorb(error, FORM_NAMES)
+                if isinstance(error, FieldError) and error.field == surveys.IDEMPOTENCY_HEADER:
+                    # The first save reached the server before the answer was lost, and
+                    # this entry differs: a new key lets it be saved as the latest finding.
+                    form.typed["idempotency_key"] = uuid.uuid4().hex
+                    form.errors["idempotency_key"] = (
+                        "An earlier save of this trap reached the server before the "
+                        "connection dropped, with other values. Save again to record this "
+                        "entry as the latest finding."
+                    )
         if finding is None:
             return _finding_page(request, session, survey, trap, form, status_code=422)
         session.flush()
