@@ -154,3 +154,23 @@ def test_touch_targets_are_at_least_44_px(live_server: tuple[str, Database], tab
            .filter(r => r.width > 0 && (r.height < 44 || r.width < 44)).length"""
     )
     assert small == 0
+
+
+def test_a_finding_can_be_recorded_with_the_keyboard_alone(
+    live_server: tuple[str, Database], browser: Browser
+) -> None:
+    base, _ = live_server
+    page = browser.new_page(viewport=TABLET_PORTRAIT)
+    page.goto(f"{base}/surveys/1/walk/traps/2")
+    page.locator("input[name=condition]").first.focus()
+    page.keyboard.press("ArrowRight")  # from Working to Leaking, as radio groups move
+    page.keyboard.press("Space")
+    assert page.locator("input[name=condition]:checked").get_attribute("value") == "leaking"
+    page.locator("input[name=method]").first.focus()
+    page.keyboard.press("Space")
+    page.locator("#f-upstream_temperature").focus()
+    page.keyboard.type("150")
+    with page.expect_navigation():
+        page.keyboard.press("Enter")
+    expect(page.get_by_role("status").first).to_contain_text("Saved on the server")
+    page.close()
