@@ -93,14 +93,16 @@ def compare_surveys(
     before: Survey,
     after: Survey,
     after_summary: SiteSummary | None = None,
+    before_summary: SiteSummary | None = None,
     pricing: SitePricing | None = None,
 ) -> SurveyComparison:
     """Trap by trap from `before` to `after`: newly failed, repaired and confirmed by a
     working finding, working again with no repair on record, still failed, or failed
-    and not tested since. A caller that has the later summary already passes it."""
+    and not tested since. A caller that has either summary already passes it."""
     pricing = pricing or SitePricing.of(site)
     comparison = SurveyComparison(
-        before=site_summary(session=session, site=site, survey=before, pricing=pricing),
+        before=before_summary
+        or site_summary(session=session, site=site, survey=before, pricing=pricing),
         after=after_summary
         or site_summary(session=session, site=site, survey=after, pricing=pricing),
     )

@@ -280,7 +280,8 @@ class TrapChangeOut(BaseModel):
 
     @classmethod
     def of(cls, change: TrapChange) -> "TrapChangeOut":
-        return cls(
+        # Built from the program's own typed record: nothing to validate, thousands a page.
+        return cls.model_construct(
             trap_id=change.trap_id,
             tag=change.tag,
             area_name=change.area_name,
@@ -309,11 +310,16 @@ class ComparisonOut(BaseModel):
     recovered_without_repair: list[TrapChangeOut]
     still_failed: list[TrapChangeOut]
     not_retested: list[TrapChangeOut]
+    change_counts: dict[Change, int] = Field(description="Traps in each list, in all")
 
     @classmethod
-    def of(cls, comparison: SurveyComparison) -> "ComparisonOut":
+    def of(cls, comparison: SurveyComparison, at_most: int | None = None) -> "ComparisonOut":
+        """The comparison; with `at_most`, each list cut to its first items (a page shows
+        a few tags and the counts)."""
+
         def listed(change: Change) -> list[TrapChangeOut]:
-            return [TrapChangeOut.of(item) for item in comparison.changes.get(change, [])]
+            items = comparison.changes.get(change, [])[:at_most]
+            return [TrapChangeOut.of(item) for item in items]
 
         before, after = comparison.before, comparison.after
         assert before.survey is not None
@@ -333,4 +339,5 @@ class ComparisonOut(BaseModel):
             recovered_without_repair=listed(Change.RECOVERED_WITHOUT_REPAIR),
             still_failed=listed(Change.STILL_FAILED),
             not_retested=listed(Change.NOT_RETESTED),
+            change_counts={change: len(comparison.changes.get(change, [])) for change in Change},
         )

@@ -21,6 +21,8 @@ from sqlalchemy import Engine, create_engine, event
 from sqlalchemy.engine import Connection
 from sqlalchemy.orm import Session, sessionmaker
 
+from service.store.revisions import bump_revisions
+
 SQLITE_BUSY_TIMEOUT_MS = 30_000
 _READ_ONLY = "traptally_read_only"
 
@@ -70,6 +72,7 @@ class Database:
 
     def __post_init__(self) -> None:
         self._writer = sessionmaker(self.engine, expire_on_commit=False)
+        event.listen(self._writer, "after_flush", bump_revisions)
         self._reader = sessionmaker(
             self.engine.execution_options(**{_READ_ONLY: True}), expire_on_commit=False
         )

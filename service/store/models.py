@@ -111,6 +111,9 @@ class Site(Base):
     loss_factors: Mapped[dict[str, list[float]]] = mapped_column(JSON)
     # {trap type: {"repaired": cost, "replaced": cost}} in the site's currency.
     repair_costs: Mapped[dict[str, dict[str, float]]] = mapped_column(JSON)
+    # Bumped in the same transaction as every write to the site or its records
+    # (service/store/revisions.py): a roll-up computed at one revision holds until the next.
+    revision: Mapped[int] = mapped_column(default=0, server_default="0")
     created_at: Mapped[dt.datetime] = mapped_column(UtcDateTime, default=_now)
     updated_at: Mapped[dt.datetime] = mapped_column(UtcDateTime, default=_now, onupdate=_now)
 

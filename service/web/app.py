@@ -9,6 +9,7 @@ from fastapi.staticfiles import StaticFiles
 from pydantic import ValidationError
 
 from service import __version__
+from service.reports.cache import RollupCache
 from service.settings import Settings
 from service.store.database import Database
 from service.store.errors import ConflictError, FieldError, NotFoundError
@@ -66,6 +67,7 @@ def create_app(database: Database | None = None) -> FastAPI:
         lifespan=lifespan,
     )
     app.state.database = store
+    app.state.rollups = RollupCache()
     for router in API_ROUTERS:
         app.include_router(router, prefix="/api/v1")
     for router in PAGE_ROUTERS:

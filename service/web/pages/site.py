@@ -49,12 +49,18 @@ def _previous(session: Session, site: Site, survey: Survey | None) -> Survey | N
 
 
 SCREEN_ROWS = 100  # rows of a list on screen; the downloads and the report hold them all
+TAGS_SHOWN = 12  # tags named for each kind of change since the survey before
 
 
 def summary_context(
-    session: Session, site: Site, survey: Survey | None, row_limit: int | None = SCREEN_ROWS
+    request: Request,
+    session: Session,
+    site: Site,
+    survey: Survey | None,
+    row_limit: int | None = SCREEN_ROWS,
 ) -> dict[str, Any]:
-    """Everything the summary, the report and the site home show: one context."""
+    """Everything the summary, the report and the site home show: one context. The
+    survey before, for the comparison, comes from the app's cache of roll-ups."""
     pricing = SitePricing.of(site)
     rolled_up = site_summary(session=session, site=site, survey=survey, pricing=pricing)
     summary = SummaryOut.of(rolled_up)
@@ -62,14 +68,18 @@ def summary_context(
     comparison = None
     if previous is not None and survey is not None:
         comparison = ComparisonOut.of(
-            compare_surveys(
+            at_most=TAGS_SHOWN,
+            comparison=compare_surveys(
                 session=session,
                 site=site,
                 before=previous,
                 after=survey,
                 after_summary=rolled_up,
+                before_summary=request.app.state.rollups.summary(
+                    session=session, site=site, survey=previous, pricing=pricing
+                ),
                 pricing=pricing,
-            )
+            ),
         )
     return {
         "summary": summary,
@@ -113,7 +123,7 @@ def site_home(request: Request, site_id: RecordId, db: Db) -> HTMLResponse:
     with db.reading() as session:
         site = get(session, Site, site_id)
         survey = surveys.latest_survey(session=session, site=site)
-        context = summary_context(session, site, survey)
+        context = summary_context(request, session, site, survey)
         return page(request, "site_home.html", site=site, **context)
 
 
@@ -137,7 +147,9 @@ async def start_survey(request: Request, site_id: RecordId, db: Db) -> Response:
         form.errors["name"] = str(error)
     with db.reading() as session:
         site = get(session, Site, site_id)
-        context = summary_context(session, site, surveys.latest_survey(session=session, site=site))
+        context = summary_context(
+            request, session, site, surveys.latest_survey(session=session, site=site)
+        )
         return page(request, "site_home.html", site=site, form=form, status_code=422, **context)
 
 
@@ -152,7 +164,7 @@ def summary_page(
 ) -> HTMLResponse:
     with db.reading() as session:
         site = get(session, Site, site_id)
-        context = summary_context(session, site, survey_choice(session, site, survey_id))
+        context = summary_context(request, session, site, survey_choice(session, site, survey_id))
         return page(request, "summary.html", site=site, **context)
 
 
@@ -163,7 +175,7 @@ def report_page(
     with db.reading() as session:
         site = get(session, Site, site_id)
         context = summary_context(
-            session, site, survey_choice(session, site, survey_id), row_limit=None
+            request, session, site, survey_choice(session, site, survey_id), row_limit=None
         )
         return page(request, "report.html", site=site, **context)
 
