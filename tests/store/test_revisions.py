@@ -10,7 +10,7 @@ from service.store.database import Database
 from tests.factories import make_finding, make_site, make_survey, make_trap
 
 
-def _revision(api: TestClient, store: Database, site_id: int) -> int:
+def _revision(store: Database, site_id: int) -> int:
     from sqlalchemy import text
 
     with store.reading() as session:
@@ -58,22 +58,22 @@ def test_each_kind_of_write_bumps_the_revision(
         "survey": survey,
         "finding": make_finding(api, survey, trap),
     }
-    before = _revision(api, store, site["id"])
+    before = _revision(store, site["id"])
     answer = WRITES[write](api, world)
     assert getattr(answer, "status_code", 201) < 300
-    assert _revision(api, store, site["id"]) > before
+    assert _revision(store, site["id"]) > before
 
 
 def test_a_refused_write_and_a_read_leave_the_revision_alone(
     api: TestClient, store: Database
 ) -> None:
     site = make_site(api)
-    before = _revision(api, store, site["id"])
+    before = _revision(store, site["id"])
     api.get(f"/api/v1/sites/{site['id']}/summary")
     assert (
         api.patch(f"/api/v1/sites/{site['id']}", json={"boiler_efficiency": 7}).status_code == 422
     )
-    assert _revision(api, store, site["id"]) == before
+    assert _revision(store, site["id"]) == before
 
 
 def test_the_comparison_on_the_page_follows_a_change_to_the_survey_before(api: TestClient) -> None:

@@ -405,3 +405,15 @@ def test_a_retry_seconds_later_is_the_same_finding_and_a_changed_one_can_follow(
         "leaking",
         "blow_through",
     ]
+
+
+def test_the_sites_page_shows_each_sites_latest_headline(
+    api: TestClient, demo: dict[str, Any]
+) -> None:
+    api.post("/api/v1/sites", json={"name": "Empty Works", "steam_cost_per_tonne": 25})
+    listing = api.get("/")
+    summary = api.get(f"/api/v1/sites/{demo['site']['id']}/summary").json()
+    show = listing.context["displays"][demo["site"]["id"]]  # type: ignore[attr-defined]
+    assert show.money(summary["totals"]["annual_total_cost"]) in listing.text
+    assert "Empty Works" in listing.text
+    assert "No survey yet." in listing.text

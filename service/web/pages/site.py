@@ -99,22 +99,24 @@ def summary_context(
 def sites(request: Request, db: Db) -> HTMLResponse:
     with db.reading() as session:
         found = session.scalars(select(Site).order_by(Site.name)).all()
-        headlines = {
-            site.id: SummaryOut.of(
-                site_summary(
-                    session=session,
-                    site=site,
-                    survey=surveys.latest_survey(session=session, site=site),
+        headlines: dict[int, SummaryOut | None] = {}
+        for each in found:
+            latest = surveys.latest_survey(session=session, site=each)
+            headlines[each.id] = (
+                SummaryOut.of(
+                    request.app.state.rollups.summary(
+                        session=session, site=each, survey=latest, pricing=SitePricing.of(each)
+                    )
                 )
+                if latest is not None
+                else None
             )
-            for site in found
-        }
         return page(
             request,
             "sites.html",
             sites=found,
             headlines=headlines,
-            displays={site.id: display_for(site) for site in found},
+            displays={each.id: display_for(each) for each in found},
         )
 
 
