@@ -5,6 +5,7 @@ trap in a summary and the same trap priced by hand give the same figures.
 """
 
 from dataclasses import dataclass, field
+from typing import Protocol
 
 from service.physics.annual import Economics
 from service.physics.conditions import TrapCondition, wastes_live_steam
@@ -19,6 +20,23 @@ from service.physics.trap_loss import (
 )
 from service.store.models import Site
 from service.store.vocabulary import CostBasis
+
+
+class Installation(Protocol):
+    """How a trap is installed, as a stored trap or a summary's row of it both say."""
+
+    @property
+    def inlet_pressure_kpa_g(self) -> float: ...
+    @property
+    def return_pressure_kpa_g(self) -> float: ...
+    @property
+    def orifice_diameter_mm(self) -> float: ...
+    @property
+    def condensate_destination(self) -> CondensateDestination: ...
+    @property
+    def condensate_load_kg_h(self) -> float | None: ...
+    @property
+    def hours_per_year(self) -> float | None: ...
 
 
 def economics_of(site: Site) -> Economics:
@@ -85,26 +103,22 @@ class SitePricing:
 
     def trap_service(
         self,
+        trap: "Installation",
         *,
-        inlet_pressure_kpa_g: float,
-        return_pressure_kpa_g: float,
-        orifice_diameter_mm: float,
-        condensate_destination: CondensateDestination,
-        condensate_load_kg_h: float | None,
-        hours_per_year: float | None,
         condition: TrapCondition,
         loss_factor_override: float | None,
     ) -> TrapService:
         """What the loss calculation needs of one trap as found, at this site."""
         atmosphere = self.atmospheric_pressure_kpa
+        hours = trap.hours_per_year
         return TrapService(
-            inlet_pressure_kpa_abs=absolute_from_gauge(inlet_pressure_kpa_g, atmosphere),
-            return_pressure_kpa_abs=absolute_from_gauge(return_pressure_kpa_g, atmosphere),
-            orifice_diameter_mm=orifice_diameter_mm,
+            inlet_pressure_kpa_abs=absolute_from_gauge(trap.inlet_pressure_kpa_g, atmosphere),
+            return_pressure_kpa_abs=absolute_from_gauge(trap.return_pressure_kpa_g, atmosphere),
+            orifice_diameter_mm=trap.orifice_diameter_mm,
             condition=condition,
-            hours_per_year=self.hours_per_year if hours_per_year is None else hours_per_year,
-            condensate_load_kg_h=condensate_load_kg_h or 0.0,
-            destination=condensate_destination,
+            hours_per_year=self.hours_per_year if hours is None else hours,
+            condensate_load_kg_h=trap.condensate_load_kg_h or 0.0,
+            destination=trap.condensate_destination,
             discharge_coefficient=self.discharge_coefficient,
             loss_factor=self.loss_factor(condition, loss_factor_override),
         )

@@ -296,14 +296,7 @@ def _priced(
     assert row.condition is not None
     assert row.recommended_action is not None
     service = pricing.trap_service(
-        inlet_pressure_kpa_g=row.inlet_pressure_kpa_g,
-        return_pressure_kpa_g=row.return_pressure_kpa_g,
-        orifice_diameter_mm=row.orifice_diameter_mm,
-        condensate_destination=row.condensate_destination,
-        condensate_load_kg_h=row.condensate_load_kg_h,
-        hours_per_year=row.hours_per_year,
-        condition=row.condition,
-        loss_factor_override=row.loss_factor_override,
+        row, condition=row.condition, loss_factor_override=row.loss_factor_override
     )
     kind, cost = _repair_cost(site, row.trap_type, row.recommended_action)
     return PricedTrap(

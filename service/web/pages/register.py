@@ -104,14 +104,7 @@ def trap_page(request: Request, trap_id: RecordId, db: Db) -> HTMLResponse:
         if latest is not None:
             pricing = SitePricing.of(site)
             service = pricing.trap_service(
-                inlet_pressure_kpa_g=trap.inlet_pressure_kpa_g,
-                return_pressure_kpa_g=trap.return_pressure_kpa_g,
-                orifice_diameter_mm=trap.orifice_diameter_mm,
-                condensate_destination=trap.condensate_destination,
-                condensate_load_kg_h=trap.condensate_load_kg_h,
-                hours_per_year=trap.hours_per_year,
-                condition=latest.condition,
-                loss_factor_override=latest.loss_factor_override,
+                trap, condition=latest.condition, loss_factor_override=latest.loss_factor_override
             )
             loss = pricing.loss(service)
         return page(
