@@ -260,6 +260,14 @@ def test_the_calculator_answers_and_explains_bad_input(client: TestClient) -> No
         },
     )
     assert trap.context["result"].method == "napier"  # type: ignore[attr-defined]
+    uphill = client.get(
+        "/calculator",
+        params={"calc": "trap", "inlet": "100", "return": "200", "hours": "8000"},
+    )
+    assert uphill.status_code == 422
+    errors = uphill.context["form"].errors  # type: ignore[attr-defined]
+    assert {"return", "orifice"} <= set(errors)
+    assert 'value="200"' in uphill.text
 
 
 def test_the_import_page_previews_then_confirms(api: TestClient, demo: dict[str, Any]) -> None:

@@ -5,15 +5,16 @@ from typing import Any
 
 from fastapi import APIRouter, Request
 from fastapi.responses import HTMLResponse
+from pydantic import ValidationError
 
 from service.physics import steam_tables
-from service.physics.annual import Economics
 from service.physics.conditions import TrapCondition
 from service.physics.flash import flash_of_condensate
 from service.physics.pressure import absolute_from_gauge
 from service.physics.states import state_from_enthalpy, state_from_quality, state_from_temperature
-from service.physics.trap_loss import CondensateDestination, TrapService, loss_factor_for, trap_loss
+from service.physics.trap_loss import CondensateDestination, trap_loss
 from service.physics.units import Dimension, UnitSystem
+from service.web.api.calc import TrapLossIn
 from service.web.display import Display
 from service.web.forms import Form
 from service.web.pages.templating import page
@@ -60,27 +61,41 @@ def _flash(form: Form, show: Display) -> Any:
     return flash_of_condensate(absolute_from_gauge(inlet), absolute_from_gauge(outlet))
 
 
+# The trap form's fields, by the trap-loss request's names.
+TRAP_FIELDS = {
+    "inlet_pressure_kpa_g": "inlet",
+    "return_pressure_kpa_g": "return",
+    "orifice_diameter_mm": "orifice",
+    "hours_per_year": "hours",
+    "steam_cost_per_tonne": "price",
+    "condensate_load_kg_h": "load",
+    "condition": "condition",
+    "condensate_destination": "destination",
+}
+
+
 def _trap(form: Form, show: Display) -> Any:
-    inlet = _required(form, "inlet", form.number("inlet", show, Dimension.PRESSURE))
-    outlet = _required(form, "return", form.number("return", show, Dimension.PRESSURE))
-    orifice = _required(form, "orifice", form.number("orifice", show, Dimension.LENGTH))
-    hours = _required(form, "hours", form.number("hours"))
-    price = form.number("price", show, Dimension.PRICE_PER_MASS)
-    load = form.number("load", show, Dimension.MASS_FLOW) or 0.0
-    if None in (inlet, outlet, orifice, hours):
+    """One trap priced exactly as POST /api/v1/calc/trap-loss prices it."""
+    typed = {
+        "inlet_pressure_kpa_g": form.number("inlet", show, Dimension.PRESSURE),
+        "return_pressure_kpa_g": form.number("return", show, Dimension.PRESSURE),
+        "orifice_diameter_mm": form.number("orifice", show, Dimension.LENGTH),
+        "hours_per_year": form.number("hours"),
+        "steam_cost_per_tonne": form.number("price", show, Dimension.PRICE_PER_MASS),
+        "condensate_load_kg_h": form.number("load", show, Dimension.MASS_FLOW),
+        "condition": form.text("condition") or "blow_through",
+        "condensate_destination": form.text("destination") or "closed_return",
+    }
+    if not form.ok:
         return None
-    condition = TrapCondition(form.text("condition") or "blow_through")
-    service = TrapService(
-        inlet_pressure_kpa_abs=absolute_from_gauge(inlet),  # type: ignore[arg-type]
-        return_pressure_kpa_abs=absolute_from_gauge(outlet),  # type: ignore[arg-type]
-        orifice_diameter_mm=orifice,  # type: ignore[arg-type]
-        condition=condition,
-        hours_per_year=hours,  # type: ignore[arg-type]
-        condensate_load_kg_h=load,
-        destination=CondensateDestination(form.text("destination") or "closed_return"),
-        loss_factor=loss_factor_for(condition),
-    )
-    return trap_loss(service, Economics(steam_cost_per_tonne=price))
+    try:
+        request = TrapLossIn.model_validate(
+            {name: value for name, value in typed.items() if value is not None}
+        )
+    except ValidationError as error:
+        form.absorb(error, TRAP_FIELDS)
+        return None
+    return trap_loss(request.trap_service(), request.economics())
 
 
 CALCULATIONS = {"saturation": _saturation, "state": _state, "flash": _flash, "trap": _trap}
