@@ -11,8 +11,9 @@ from fastapi.testclient import TestClient
 from sqlalchemy import create_engine, make_url
 
 from service.store.database import Database
-from service.store.models import Base
+from service.store.models import Base, Role
 from service.web.app import create_app
+from tests.factories import bearer, make_user
 
 POSTGRES_VARIABLE = "TRAPTALLY_TEST_POSTGRES_URL"
 
@@ -62,12 +63,16 @@ def store(request: pytest.FixtureRequest) -> Database:
 
 @pytest.fixture
 def api(store: Database) -> Iterator[TestClient]:
-    with TestClient(create_app(store)) as test_client:
+    """A client signed in as an admin by a bearer token: it may do anything."""
+    headers = bearer(store, make_user(store, "test-admin", Role.ADMIN))
+    with TestClient(create_app(store), headers=headers) as test_client:
         yield test_client
 
 
 @pytest.fixture
 def client(sqlite_database: Database) -> Iterator[TestClient]:
-    """A client for the endpoints that store nothing (steam properties, calculations)."""
-    with TestClient(create_app(sqlite_database)) as test_client:
+    """A signed-in client for the endpoints that store nothing (steam properties,
+    calculations)."""
+    headers = bearer(emptied(sqlite_database), make_user(sqlite_database, "calc", Role.TECHNICIAN))
+    with TestClient(create_app(sqlite_database), headers=headers) as test_client:
         yield test_client

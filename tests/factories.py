@@ -1,8 +1,55 @@
-"""Small factories: a site, an area, a trap, a survey and a finding, through the API."""
+"""Small factories: people who sign in (straight into the database), and a site, an area,
+a trap, a survey and a finding, through the API."""
 
+import datetime as dt
+from functools import lru_cache
 from typing import Any
 
 from fastapi.testclient import TestClient
+
+from service.accounts.passwords import hash_password
+from service.accounts.sessions import start_session
+from service.accounts.tokens import create_token
+from service.settings import Settings
+from service.store.database import Database
+from service.store.models import Role, Site, User
+
+PASSWORD = "steam-traps-on-line-4"
+
+
+@lru_cache(maxsize=1)
+def password_hash() -> str:
+    """One Argon2id hash of PASSWORD for every test user: hashing costs ~50 ms each time."""
+    return hash_password(PASSWORD)
+
+
+def make_user(store: Database, name: str, role: Role, site_ids: list[int] | None = None) -> int:
+    """A user with PASSWORD, assigned to the given sites; their id."""
+    with store.writing() as session:
+        user = User(name=name, role=role, password_hash=password_hash())
+        user.sites = [session.get_one(Site, site) for site in site_ids or []]
+        session.add(user)
+        session.flush()
+        return user.id
+
+
+def bearer(store: Database, user_id: int) -> dict[str, str]:
+    """Request headers with a new API token of the user."""
+    with store.writing() as session:
+        secret, _ = create_token(session, session.get_one(User, user_id), "test")
+    return {"Authorization": f"Bearer {secret}"}
+
+
+def browser_session(store: Database, user_id: int) -> tuple[str, str]:
+    """A new signed-in session of the user: (cookie secret, CSRF token)."""
+    with store.writing() as session:
+        secret, started = start_session(
+            session,
+            session.get_one(User, user_id),
+            Settings().session_limits,
+            dt.datetime.now(dt.UTC),
+        )
+        return secret, started.csrf_token
 
 
 def _created(answer: Any) -> dict[str, Any]:

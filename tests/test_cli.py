@@ -1,5 +1,8 @@
 """The `traptally` command line."""
 
+import getpass
+import hashlib
+import io
 from pathlib import Path
 from typing import Any
 
@@ -75,3 +78,44 @@ def test_unknown_command_exits_with_usage(capsys: pytest.CaptureFixture[str]) ->
     with pytest.raises(SystemExit):
         cli.main(["dance"])
     assert "usage: traptally" in capsys.readouterr().err
+
+
+def test_users_and_tokens_from_the_command_line(
+    tmp_path: Path, capsys: pytest.CaptureFixture[str], monkeypatch: pytest.MonkeyPatch
+) -> None:
+    url = f"sqlite:///{tmp_path / 'people.db'}"
+    assert cli.main(["db", "upgrade", "--database-url", url]) == 0
+    monkeypatch.setattr("sys.stdin", io.StringIO("password\n"))
+    add = ["user", "add", "maria", "--role", "manager", "--password-stdin", "--database-url", url]
+    assert cli.main(add) == 1
+    assert "common passwords" in capsys.readouterr().err
+    monkeypatch.setattr("sys.stdin", io.StringIO("four trap tags\n"))
+    assert cli.main(add) == 0
+    assert cli.main(["token", "create", "--user", "maria", "--database-url", url]) == 0
+    secret = capsys.readouterr().out.strip().splitlines()[-1]
+    assert secret.startswith("tt_")
+    with Database.at(url).reading() as session:
+        stored = session.execute(text("SELECT secret_sha256 FROM api_tokens")).scalar()
+    assert stored == hashlib.sha256(secret.encode()).hexdigest()  # only the digest is kept
+    assert cli.main(["token", "list", "--user", "maria", "--database-url", url]) == 0
+    assert "live" in capsys.readouterr().out
+    assert cli.main(["token", "revoke", "1", "--database-url", url]) == 0
+    assert cli.main(["user", "disable", "maria", "--database-url", url]) == 0
+    assert cli.main(["user", "list", "--database-url", url]) == 0
+    assert "maria\tmanager\tdisabled" in capsys.readouterr().out
+    assert cli.main(["user", "disable", "nobody", "--database-url", url]) == 1
+    with Database.at(url).reading() as session:
+        actors = set(session.execute(text("SELECT actor_name FROM audit_entries")).scalars())
+    assert actors == {f"command line ({getpass.getuser()})"}
+
+
+def test_serve_demo_prints_each_demo_account_once(
+    served: list[dict[str, Any]], tmp_path: Path, capsys: pytest.CaptureFixture[str]
+) -> None:
+    url = f"sqlite:///{tmp_path / 'demo-people.db'}"
+    assert cli.main(["serve", "--demo", "--database-url", url]) == 0
+    printed = capsys.readouterr().out
+    for role in ("technician", "manager", "admin"):
+        assert f"sign in as demo-{role} with password " in printed
+    assert cli.main(["serve", "--demo", "--database-url", url]) == 0
+    assert "with password" not in capsys.readouterr().out

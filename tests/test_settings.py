@@ -6,7 +6,7 @@ from pathlib import Path
 
 import pytest
 
-from service.settings import DATABASE_URL_VARIABLE, Settings
+from service.settings import DATABASE_URL_VARIABLE, PREFIX, Settings
 from service.store.schemas import SiteCreate
 from service.web.api.calc import TrapLossIn
 
@@ -20,9 +20,24 @@ def _row(name: str) -> str:
     return match.group(0)
 
 
-def test_the_process_settings_are_documented() -> None:
-    assert [field.name for field in dataclasses.fields(Settings)] == ["database_url"]
-    assert Settings().database_url in _row(DATABASE_URL_VARIABLE)
+@pytest.mark.parametrize("field", dataclasses.fields(Settings), ids=lambda field: field.name)
+def test_every_process_setting_is_documented_with_its_default(field: dataclasses.Field) -> None:  # type: ignore[type-arg]
+    row = _row(PREFIX + field.name.upper())
+    assert f"`{getattr(Settings(), field.name)}`" in row, row
+
+
+def test_settings_are_read_from_the_environment_and_checked() -> None:
+    read = Settings.from_environment(
+        environment={
+            DATABASE_URL_VARIABLE: "sqlite:///x.db",
+            "TRAPTALLY_SESSION_ABSOLUTE_HOURS": "8",
+            "TRAPTALLY_SIGN_IN_FAILURES_PER_ACCOUNT": "3/10 minutes",
+        }
+    )
+    assert (read.database_url, read.session_absolute_hours) == ("sqlite:///x.db", 8)
+    assert read.sign_in_failures_per_account == "3/10 minutes"
+    with pytest.raises(SystemExit, match="TRAPTALLY_SESSION_IDLE_MINUTES"):
+        Settings.from_environment(environment={"TRAPTALLY_SESSION_IDLE_MINUTES": "0"})
 
 
 @pytest.mark.parametrize(

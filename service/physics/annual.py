@@ -24,6 +24,9 @@ from service.physics.pressure import STANDARD_ATMOSPHERE_KPA
 
 HOURS_IN_LEAP_YEAR = 8784.0
 DEFAULT_BOILER_EFFICIENCY = 0.80  # typical 0.75-0.85 (shared/DOMAIN.md), common practice
+# Below this no steam boiler runs (common practice); it also keeps fuel = energy / efficiency
+# finite for every stored price.
+MIN_BOILER_EFFICIENCY = 0.3
 DEFAULT_MAKEUP_WATER_TEMPERATURE_C = 15.0  # cold mains water, common practice
 DEFAULT_CO2_KG_PER_GJ_FUEL = 56.1  # natural gas, IPCC 2006 vol. 2 table 2.2 (LHV)
 
@@ -45,9 +48,10 @@ class Economics:
     def __post_init__(self) -> None:
         if self.steam_cost_per_tonne is not None and self.fuel_price_per_gj is not None:
             raise ValueError("give either a steam cost per tonne or a fuel price per GJ, not both")
-        if not 0.0 < self.boiler_efficiency <= 1.0:
+        if not MIN_BOILER_EFFICIENCY <= self.boiler_efficiency <= 1.0:
             raise ValueError(
-                f"boiler efficiency {self.boiler_efficiency:g} must lie above 0 and at most 1"
+                f"boiler efficiency {self.boiler_efficiency:g} must lie between "
+                f"{MIN_BOILER_EFFICIENCY:g} and 1"
             )
 
     @property

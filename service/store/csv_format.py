@@ -70,10 +70,30 @@ class UnreadableFile(ValueError):  # noqa: N818 - it names what the file is
     """The file as a whole cannot be read: its message says why."""
 
 
+# What a file that is not CSV often is, told by its first bytes (its name is not trusted).
+NOT_CSV_SIGNATURES = {
+    b"PK\x03\x04": "a spreadsheet (XLSX) or another ZIP file; save it as CSV UTF-8",
+    b"\xd0\xcf\x11\xe0": "an old Office file (XLS); save it as CSV UTF-8",
+    b"%PDF": "a PDF",
+    b"\x89PNG": "a PNG picture",
+    b"\xff\xd8\xff": "a JPEG picture",
+}
+
+
 def read_table(content: bytes) -> Table:
-    """The file's header (lower-cased, trimmed) and its non-blank rows."""
+    """The file's header (lower-cased, trimmed) and its non-blank rows. Whether it is CSV
+    text is judged from its content: its first bytes, NUL bytes, and UTF-8.
+
+    >>> read_table(b"%PDF-1.7 ...")
+    Traceback (most recent call last):
+    ...
+    service.store.csv_format.UnreadableFile: this is a PDF, not CSV
+    """
     if len(content) > MAX_CSV_BYTES:
         raise UnreadableFile(f"the file is larger than {MAX_CSV_BYTES // (1024 * 1024)} MB")
+    for signature, what in NOT_CSV_SIGNATURES.items():
+        if content.startswith(signature):
+            raise UnreadableFile(f"this is {what}, not CSV")
     if b"\x00" in content:
         raise UnreadableFile("this is not a text file (it holds NUL bytes)")
     try:

@@ -21,6 +21,7 @@ from sqlalchemy import Engine, create_engine, event
 from sqlalchemy.engine import Connection
 from sqlalchemy.orm import Session, sessionmaker
 
+from service.store.audit import ACTOR_KEY, Actor, write_audit_entries
 from service.store.revisions import bump_revisions
 
 SQLITE_BUSY_TIMEOUT_MS = 30_000
@@ -73,6 +74,7 @@ class Database:
     def __post_init__(self) -> None:
         self._writer = sessionmaker(self.engine, expire_on_commit=False)
         event.listen(self._writer, "after_flush", bump_revisions)
+        event.listen(self._writer, "after_flush", write_audit_entries)
         self._reader = sessionmaker(
             self.engine.execution_options(**{_READ_ONLY: True}), expire_on_commit=False
         )
@@ -86,9 +88,12 @@ class Database:
         return self.engine.dialect.name == "sqlite"
 
     @contextmanager
-    def writing(self) -> Iterator[Session]:
-        """A session whose work is one transaction: committed at the end, or rolled back."""
+    def writing(self, actor: Actor | None = None) -> Iterator[Session]:
+        """A session whose work is one transaction: committed at the end, or rolled back.
+        The audit trail names `actor` (default: the system) for what it writes."""
         with self._writer.begin() as session:
+            if actor is not None:
+                session.info[ACTOR_KEY] = actor
             yield session
 
     @contextmanager

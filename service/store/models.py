@@ -1,4 +1,5 @@
-"""The data model: sites, areas, traps, surveys, findings and repairs (SQLAlchemy 2 ORM).
+"""The data model: sites, areas, traps, surveys, findings and repairs; the people who
+sign in, their sessions and tokens; and the audit trail (SQLAlchemy 2 ORM).
 
 Units follow `service.physics`: pressures kPa(g) where the name says `_kpa_g`,
 temperatures degC, diameters mm, flows kg/h, hours per year h, money in the site's
@@ -12,12 +13,14 @@ from typing import Any
 
 from sqlalchemy import (
     JSON,
+    Column,
     DateTime,
     Enum,
     ForeignKey,
     Index,
     MetaData,
     String,
+    Table,
     Text,
     TypeDecorator,
     UniqueConstraint,
@@ -218,3 +221,94 @@ class Repair(Base):
     cost: Mapped[float | None]
     notes: Mapped[str] = mapped_column(Text, default="")
     created_at: Mapped[dt.datetime] = mapped_column(UtcDateTime, default=_now)
+
+
+class Role(StrEnum):
+    """What a person may do: see service/accounts/roles.py for each role's permissions."""
+
+    TECHNICIAN = "technician"
+    MANAGER = "manager"
+    ADMIN = "admin"
+
+
+user_sites = Table(
+    "user_sites",
+    Base.metadata,
+    Column("user_id", ForeignKey("users.id", ondelete="CASCADE"), primary_key=True),
+    Column("site_id", ForeignKey("sites.id", ondelete="CASCADE"), primary_key=True),
+)
+
+
+class User(Base):
+    """A person who signs in. Never deleted: disabled, so the audit trail keeps its names."""
+
+    __tablename__ = "users"
+
+    id: Mapped[int] = mapped_column(primary_key=True)
+    name: Mapped[str] = mapped_column(String(80), unique=True)
+    role: Mapped[Role] = mapped_column(_words(Role))
+    # Argon2id, in the PHC string format that carries its own parameters and salt.
+    password_hash: Mapped[str] = mapped_column(String(200))
+    disabled: Mapped[bool] = mapped_column(default=False)
+    created_at: Mapped[dt.datetime] = mapped_column(UtcDateTime, default=_now)
+    password_changed_at: Mapped[dt.datetime] = mapped_column(UtcDateTime, default=_now)
+
+    sites: Mapped[list[Site]] = relationship(secondary=user_sites, order_by="Site.name")
+
+
+class UserSession(Base):
+    """A signed-in browser. The cookie holds a random secret; only its SHA-256 is stored."""
+
+    __tablename__ = "user_sessions"
+
+    id: Mapped[int] = mapped_column(primary_key=True)
+    secret_sha256: Mapped[str] = mapped_column(String(64), unique=True)
+    user_id: Mapped[int] = mapped_column(ForeignKey("users.id", ondelete="CASCADE"), index=True)
+    # The synchronizer token every changing form of this session must carry.
+    csrf_token: Mapped[str] = mapped_column(String(64))
+    started_at: Mapped[dt.datetime] = mapped_column(UtcDateTime, default=_now)
+    last_seen_at: Mapped[dt.datetime] = mapped_column(UtcDateTime, default=_now)
+
+    user: Mapped[User] = relationship()
+
+
+class ApiToken(Base):
+    """A bearer token for an integration, acting as its user. Stored as its SHA-256 only."""
+
+    __tablename__ = "api_tokens"
+
+    id: Mapped[int] = mapped_column(primary_key=True)
+    secret_sha256: Mapped[str] = mapped_column(String(64), unique=True)
+    user_id: Mapped[int] = mapped_column(ForeignKey("users.id", ondelete="CASCADE"), index=True)
+    label: Mapped[str] = mapped_column(String(80), default="")
+    created_at: Mapped[dt.datetime] = mapped_column(UtcDateTime, default=_now)
+    revoked_at: Mapped[dt.datetime | None] = mapped_column(UtcDateTime)
+
+    user: Mapped[User] = relationship()
+
+
+class AuditEntry(Base):
+    """One change to a record: who, when, and the values before and after.
+
+    Written by service/store/audit.py in the transaction of the change itself; no route
+    changes or deletes an entry. Ids are plain integers, not foreign keys, so an entry
+    outlives the record it tells of.
+    """
+
+    __tablename__ = "audit_entries"
+    __table_args__ = (
+        Index("ix_audit_entries_site_at", "site_id", "at"),
+        Index("ix_audit_entries_trap_at", "trap_id", "at"),
+    )
+
+    id: Mapped[int] = mapped_column(primary_key=True)
+    at: Mapped[dt.datetime] = mapped_column(UtcDateTime, default=_now)
+    actor_user_id: Mapped[int | None]
+    actor_name: Mapped[str] = mapped_column(String(80))
+    action: Mapped[str] = mapped_column(String(10))
+    record_type: Mapped[str] = mapped_column(String(20))
+    record_id: Mapped[int]
+    site_id: Mapped[int | None]
+    trap_id: Mapped[int | None]
+    old_values: Mapped[dict[str, Any] | None] = mapped_column(JSON)
+    new_values: Mapped[dict[str, Any] | None] = mapped_column(JSON)

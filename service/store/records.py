@@ -1,4 +1,5 @@
-"""Small pieces every store module uses: a page of a list, a record by id, merged edits."""
+"""Small pieces every store module uses: a page of a list, a record by id, the site a
+record belongs to, merged edits."""
 
 from collections.abc import Sequence
 from dataclasses import dataclass
@@ -9,6 +10,7 @@ from sqlalchemy import Select, func, select
 from sqlalchemy.orm import Session
 
 from service.store.errors import NotFoundError
+from service.store.models import Finding, Repair, Site, Trap
 
 T = TypeVar("T")
 Input = TypeVar("Input", bound=BaseModel)
@@ -37,6 +39,18 @@ def get(session: Session, model: type[T], record_id: int) -> T:
     if record is None:
         raise NotFoundError(getattr(model, "__tablename__", model.__name__).rstrip("s"), record_id)
     return record
+
+
+def site_id_of(session: Session, record: Any) -> int:
+    """The id of the site a site, area, trap, survey, finding or repair belongs to."""
+    if isinstance(record, Site):
+        return record.id
+    if isinstance(record, Finding):
+        return record.trap.site_id
+    if isinstance(record, Repair):
+        return get(session, Trap, record.trap_id).site_id
+    site_id: int = record.site_id
+    return site_id
 
 
 def merged_input(model: type[Input], current: dict[str, Any], changes: dict[str, Any]) -> Input:

@@ -23,6 +23,7 @@ from service.physics.annual import (
     DEFAULT_CO2_KG_PER_GJ_FUEL,
     DEFAULT_MAKEUP_WATER_TEMPERATURE_C,
     HOURS_IN_LEAP_YEAR,
+    MIN_BOILER_EFFICIENCY,
 )
 from service.physics.conditions import DEFAULT_LOSS_FACTORS, TrapCondition, wastes_live_steam
 from service.physics.orifice import MAXIMUM_ORIFICE_MM
@@ -68,7 +69,7 @@ Tag = Annotated[
 Money = Annotated[float, Field(ge=0.0, le=1e7)]
 Fraction = Annotated[float, Field(ge=0.0, le=1.0)]
 DischargeCoefficient = Annotated[float, Field(gt=0.0, le=1.0)]
-Efficiency = Annotated[float, Field(gt=0.0, le=1.0)]
+Efficiency = Annotated[float, Field(ge=MIN_BOILER_EFFICIENCY, le=1.0)]
 HoursPerYear = Annotated[float, Field(ge=0.0, le=HOURS_IN_LEAP_YEAR)]
 GaugePressure = Annotated[float, Field(ge=-STANDARD_ATMOSPHERE_KPA, le=CRITICAL_PRESSURE_KPA)]
 OrificeDiameter = Annotated[float, Field(gt=0.0, le=MAXIMUM_ORIFICE_MM)]

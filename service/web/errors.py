@@ -10,10 +10,11 @@ import math
 from collections.abc import Iterator
 from contextlib import contextmanager
 from typing import Any
+from urllib.parse import urlencode
 
 from fastapi import Request
 from fastapi.exceptions import RequestValidationError
-from fastapi.responses import JSONResponse, Response
+from fastapi.responses import JSONResponse, RedirectResponse, Response
 from pydantic import ValidationError
 
 from service.store.errors import FieldError
@@ -117,3 +118,20 @@ async def value_error_as_422(request: Request, error: Exception) -> JSONResponse
         status_code=422,
         content={"detail": [problem(["body"], str(error), "value_error", None)]},
     )
+
+
+async def not_signed_in(request: Request, error: Exception) -> Response:
+    """The API answers 401; a page sends the person to sign in, and back here after."""
+    if _for_a_person(request):
+        back = request.url.path + (f"?{request.url.query}" if request.url.query else "")
+        return RedirectResponse(f"/sign-in?{urlencode({'next': back})}", status_code=302)
+    return JSONResponse(
+        status_code=401, content={"detail": str(error)}, headers={"WWW-Authenticate": "Bearer"}
+    )
+
+
+async def forbidden_as_403(request: Request, error: Exception) -> Response:
+    """A role without the permission, or a change without its CSRF token."""
+    if _for_a_person(request):
+        return _error_page(request, 403, "Not allowed", str(error))
+    return JSONResponse(status_code=403, content={"detail": str(error)})

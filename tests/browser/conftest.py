@@ -14,11 +14,13 @@ from pathlib import Path
 
 import pytest
 import uvicorn
-from playwright.sync_api import Browser, Playwright, sync_playwright
+from playwright.sync_api import Browser, Page, Playwright, sync_playwright
 
 from service.store.database import Database
 from service.store.demo import load_demo
+from service.store.models import Role
 from service.web.app import create_app
+from tests.factories import PASSWORD, bearer, make_user
 
 CHROMIUM = "/usr/bin/chromium"
 CHROMIUM_FLAGS = [
@@ -46,6 +48,8 @@ def live_server(tmp_path_factory: pytest.TempPathFactory) -> Iterator[tuple[str,
     database.upgrade()
     with database.writing() as session:
         load_demo(session=session)
+    for name, role in (("walker", Role.MANAGER), ("fieldtech", Role.TECHNICIAN)):
+        make_user(database, name, role, site_ids=[1])
     port = _free_port()
     server = uvicorn.Server(
         uvicorn.Config(create_app(database), host="127.0.0.1", port=port, log_level="warning")
@@ -72,3 +76,19 @@ def browser() -> Iterator[Browser]:
     yield launched
     launched.close()
     playwright.stop()
+
+
+@pytest.fixture(scope="module")
+def api_headers(live_server: tuple[str, Database]) -> dict[str, str]:
+    """Headers of an API token of the manager, for reading back what a browser stored."""
+    _, database = live_server
+    return bearer(database, 1)
+
+
+def sign_in(page: Page, base: str, name: str = "walker", then: str = "/") -> None:
+    """Sign in through the sign-in form, as a person would, and land on `then`."""
+    page.goto(f"{base}{then}")
+    page.get_by_label("User name").fill(name)
+    page.get_by_label("Password").fill(PASSWORD)
+    with page.expect_navigation():
+        page.get_by_role("button", name="Sign in").click()

@@ -10,14 +10,18 @@ from playwright.sync_api import Browser, Page, Route, expect
 from pypdf import PdfReader
 
 from service.store.database import Database
+from tests.browser.conftest import sign_in
 
 TABLET_PORTRAIT = {"width": 768, "height": 1024}
 
 
 @pytest.fixture
-def tablet(browser: Browser) -> Any:
+def tablet(live_server: tuple[str, Database], browser: Browser) -> Any:
+    """A tablet, signed in as the site's manager."""
     context = browser.new_context(viewport=TABLET_PORTRAIT, has_touch=True)
-    yield context.new_page()
+    page = context.new_page()
+    sign_in(page, live_server[0])
+    yield page
     context.close()
 
 
@@ -29,7 +33,7 @@ def _record(page: Page, condition: str, upstream: str, downstream: str) -> None:
 
 
 def test_a_technician_walks_five_traps_and_one_save_survives_a_dropped_connection(
-    live_server: tuple[str, Database], tablet: Page
+    live_server: tuple[str, Database], tablet: Page, api_headers: dict[str, str]
 ) -> None:
     base, _ = live_server
     tablet.goto(f"{base}/sites/1")
@@ -65,7 +69,7 @@ def test_a_technician_walks_five_traps_and_one_save_survives_a_dropped_connectio
 
     assert len(dropped) == 1
     survey_id = int(re.search(r"/surveys/(\d+)/", tablet.url).group(1))  # type: ignore[union-attr]
-    findings = httpx.get(f"{base}/api/v1/surveys/{survey_id}/findings").json()
+    findings = httpx.get(f"{base}/api/v1/surveys/{survey_id}/findings", headers=api_headers).json()
     assert findings["total"] == 5
     assert [item["condition"] for item in findings["items"]] == [
         "working",
@@ -75,7 +79,7 @@ def test_a_technician_walks_five_traps_and_one_save_survives_a_dropped_connectio
         "plugged",
     ]
 
-    summary = httpx.get(f"{base}/api/v1/sites/1/summary").json()
+    summary = httpx.get(f"{base}/api/v1/sites/1/summary", headers=api_headers).json()
     assert summary["survey"]["id"] == survey_id
     assert summary["failed_count"] == 3
     tablet.goto(f"{base}/sites/1/summary")
@@ -90,7 +94,7 @@ def test_the_printed_report_has_every_section(
 ) -> None:
     base, _ = live_server
     page = browser.new_page()
-    page.goto(f"{base}/sites/1/report")
+    sign_in(page, base, then="/sites/1/report")
     document = PdfReader(io.BytesIO(page.pdf(format="A4")))
     text = " ".join(sheet.extract_text() for sheet in document.pages)
     for section in (
@@ -120,6 +124,8 @@ DEMO_PAGES = [
     "/traps/1",
     "/sites/1/settings",
     "/sites/1/import",
+    "/sites/1/audit",
+    "/account/password",
     "/surveys/1/walk",
     "/surveys/1/walk/traps/1",
     "/surveys/1/walk/new-trap",
@@ -161,7 +167,7 @@ def test_a_finding_can_be_recorded_with_the_keyboard_alone(
 ) -> None:
     base, _ = live_server
     page = browser.new_page(viewport=TABLET_PORTRAIT)
-    page.goto(f"{base}/surveys/1/walk/traps/2")
+    sign_in(page, base, name="fieldtech", then="/surveys/1/walk/traps/2")
     page.locator("input[name=condition]").first.focus()
     page.keyboard.press("ArrowRight")  # from Working to Leaking, as radio groups move
     page.keyboard.press("Space")

@@ -144,6 +144,9 @@ def test_dialects_and_units_in_the_header(api: TestClient, content: str) -> None
         ),
         ("tag,application\nÅ,drip\n".encode("latin-1"), "UTF-8"),
         (b"tag,appl\x00ication\n", "NUL"),
+        # Judged by content, whatever the name: a workbook's ZIP signature and a PDF's.
+        (b"PK\x03\x04\x14\x00\x06\x00tag,application", "spreadsheet (XLSX)"),
+        (b"%PDF-1.7\ntag,application\n", "a PDF, not CSV"),
         (
             b"tag,application,trap_type,orifice_diameter_mm,inlet_pressure_kpa_g,"
             b"return_pressure_kpa_g\n",

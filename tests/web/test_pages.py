@@ -1,6 +1,7 @@
 """The pages: their context carries the API's numbers, and their forms keep what was
 typed, say what is wrong beside the field, and store nothing when anything is wrong."""
 
+import datetime as dt
 import io
 import re
 from typing import Any
@@ -101,6 +102,9 @@ def test_a_finding_saved_twice_with_its_key_is_stored_once(
     _, key = _form_page(api, survey, trap_id)
     fields = {
         "idempotency_key": key,
+        # The form carries the moment it was opened; without it each save is "now", and two
+        # saves either side of a second would differ.
+        "opened_at": dt.datetime.now(dt.UTC).replace(microsecond=0).isoformat(),
         "condition": "leaking",
         "method": "ultrasonic",
         "upstream_temperature": "181.5",

@@ -2,14 +2,16 @@
 
 from typing import Annotated, Any, Self
 
-from fastapi import APIRouter
+from fastapi import APIRouter, Depends
 from pydantic import BaseModel, ConfigDict, Field, ValidationInfo, field_validator, model_validator
 
+from service.accounts.roles import Permission
 from service.physics.annual import (
     DEFAULT_BOILER_EFFICIENCY,
     DEFAULT_CO2_KG_PER_GJ_FUEL,
     DEFAULT_MAKEUP_WATER_TEMPERATURE_C,
     HOURS_IN_LEAP_YEAR,
+    MIN_BOILER_EFFICIENCY,
     Economics,
     YearlyLoss,
 )
@@ -30,10 +32,13 @@ from service.physics.trap_loss import (
     loss_factor_for,
     trap_loss,
 )
+from service.web.access import require
 from service.web.api.inputs import GaugePressure, SiteInput
 from service.web.errors import reported_against
 
-router = APIRouter(prefix="/calc", tags=["calculations"])
+router = APIRouter(
+    prefix="/calc", tags=["calculations"], dependencies=[Depends(require(Permission.READ))]
+)
 
 Fraction = Annotated[float, Field(ge=0.0, le=1.0)]
 DischargeCoefficient = Annotated[float, Field(gt=0.0, le=1.0)]
@@ -104,7 +109,9 @@ class TrapLossIn(SiteInput):
     steam_cost_per_tonne: Money | None = None
     fuel_price_per_gj: Money | None = None
     water_and_treatment_cost_per_tonne: Money = 0.0
-    boiler_efficiency: Annotated[float, Field(gt=0.0, le=1.0)] = DEFAULT_BOILER_EFFICIENCY
+    boiler_efficiency: Annotated[float, Field(ge=MIN_BOILER_EFFICIENCY, le=1.0)] = (
+        DEFAULT_BOILER_EFFICIENCY
+    )
     makeup_water_temperature_c: Annotated[float, Field(ge=0.01, le=95.0)] = (
         DEFAULT_MAKEUP_WATER_TEMPERATURE_C
     )

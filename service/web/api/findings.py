@@ -8,8 +8,8 @@ from starlette.status import HTTP_201_CREATED
 from service.physics.conditions import TrapCondition
 from service.store import surveys
 from service.store.models import Finding, Survey, Trap
-from service.store.records import get
 from service.store.schemas import FindingCreate, FindingOut, FindingUpdate
+from service.web.access import Managing, Reading, Recording
 from service.web.dependencies import Db, OptionalRecordIdQuery, PageOut, PagingDep, RecordId
 
 router = APIRouter(tags=["findings"])
@@ -36,11 +36,12 @@ def record_finding(
     survey_id: RecordId,
     body: FindingCreate,
     db: Db,
+    viewer: Recording,
     response: Response,
     idempotency_key: IdempotencyKey = None,
 ) -> FindingOut:
-    with db.writing() as session:
-        survey = get(session, Survey, survey_id)
+    with db.writing(viewer.actor) as session:
+        survey = viewer.get(session, Survey, survey_id)
         finding, replayed = surveys.record_finding(
             session=session, survey=survey, data=body, idempotency_key=idempotency_key
         )
@@ -54,6 +55,7 @@ def record_finding(
 def survey_findings(
     survey_id: RecordId,
     db: Db,
+    viewer: Reading,
     paging: PagingDep,
     condition: TrapCondition | None = None,
     area_id: OptionalRecordIdQuery = None,
@@ -61,7 +63,7 @@ def survey_findings(
 ) -> PageOut[FindingOut]:
     where = surveys.FindingFilter(condition=condition, area_id=area_id, tag_prefix=tag_prefix)
     with db.reading() as session:
-        survey = get(session, Survey, survey_id)
+        survey = viewer.get(session, Survey, survey_id)
         page = surveys.list_findings(
             session=session, survey=survey, where=where, limit=paging.limit, offset=paging.offset
         )
@@ -69,9 +71,11 @@ def survey_findings(
 
 
 @router.get("/traps/{trap_id}/findings", summary="A trap's findings, oldest first")
-def trap_findings(trap_id: RecordId, db: Db, paging: PagingDep) -> PageOut[FindingOut]:
+def trap_findings(
+    trap_id: RecordId, db: Db, viewer: Reading, paging: PagingDep
+) -> PageOut[FindingOut]:
     with db.reading() as session:
-        trap = get(session, Trap, trap_id)
+        trap = viewer.get(session, Trap, trap_id)
         page = surveys.list_findings(
             session=session, trap=trap, limit=paging.limit, offset=paging.offset
         )
@@ -79,15 +83,17 @@ def trap_findings(trap_id: RecordId, db: Db, paging: PagingDep) -> PageOut[Findi
 
 
 @router.get("/findings/{finding_id}", summary="One finding")
-def read_finding(finding_id: RecordId, db: Db) -> FindingOut:
+def read_finding(finding_id: RecordId, db: Db, viewer: Reading) -> FindingOut:
     with db.reading() as session:
-        return FindingOut.model_validate(get(session, Finding, finding_id))
+        return FindingOut.model_validate(viewer.get(session, Finding, finding_id))
 
 
 @router.patch("/findings/{finding_id}", summary="Correct a finding")
-def update_finding(finding_id: RecordId, body: FindingUpdate, db: Db) -> FindingOut:
-    with db.writing() as session:
-        finding = get(session, Finding, finding_id)
+def update_finding(
+    finding_id: RecordId, body: FindingUpdate, db: Db, viewer: Managing
+) -> FindingOut:
+    with db.writing(viewer.actor) as session:
+        finding = viewer.get(session, Finding, finding_id)
         changes = body.model_dump(exclude_unset=True)
         return FindingOut.model_validate(
             surveys.update_finding(session=session, finding=finding, changes=changes)
@@ -97,7 +103,7 @@ def update_finding(finding_id: RecordId, body: FindingUpdate, db: Db) -> Finding
 @router.delete(
     "/findings/{finding_id}", status_code=204, summary="Delete a finding entered by mistake"
 )
-def delete_finding(finding_id: RecordId, db: Db) -> Response:
-    with db.writing() as session:
-        session.delete(get(session, Finding, finding_id))
+def delete_finding(finding_id: RecordId, db: Db, viewer: Managing) -> Response:
+    with db.writing(viewer.actor) as session:
+        session.delete(viewer.get(session, Finding, finding_id))
     return Response(status_code=204)

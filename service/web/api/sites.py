@@ -15,36 +15,38 @@ from service.store.models import Site, Survey
 from service.store.records import get, paged
 from service.store.schemas import SiteCreate, SiteOut, SiteUpdate
 from service.store.surveys import latest_survey
+from service.web.access import Administering, Managing, Reading
 from service.web.dependencies import MAX_RECORD_ID, Db, PageOut, PagingDep, RecordId, RecordIdQuery
 
 router = APIRouter(tags=["sites"])
 
 
 @router.post("/sites", status_code=201, summary="Create a site")
-def create_site(body: SiteCreate, db: Db) -> SiteOut:
-    with db.writing() as session:
+def create_site(body: SiteCreate, db: Db, viewer: Administering) -> SiteOut:
+    with db.writing(viewer.actor) as session:
         return SiteOut.model_validate(register.create_site(session=session, data=body))
 
 
 @router.get("/sites", summary="List sites")
-def list_sites(db: Db, paging: PagingDep) -> PageOut[SiteOut]:
+def list_sites(db: Db, viewer: Reading, paging: PagingDep) -> PageOut[SiteOut]:
     with db.reading() as session:
-        page = paged(
-            session, select(Site).order_by(Site.name), limit=paging.limit, offset=paging.offset
-        )
+        visible = select(Site).order_by(Site.name)
+        if viewer.site_ids is not None:
+            visible = visible.where(Site.id.in_(sorted(viewer.site_ids)))
+        page = paged(session, visible, limit=paging.limit, offset=paging.offset)
         return PageOut.of(page, SiteOut)
 
 
 @router.get("/sites/{site_id}", summary="One site and its settings")
-def read_site(site_id: RecordId, db: Db) -> SiteOut:
+def read_site(site_id: RecordId, db: Db, viewer: Reading) -> SiteOut:
     with db.reading() as session:
-        return SiteOut.model_validate(get(session, Site, site_id))
+        return SiteOut.model_validate(viewer.get(session, Site, site_id))
 
 
 @router.patch("/sites/{site_id}", summary="Change a site's settings")
-def update_site(site_id: RecordId, body: SiteUpdate, db: Db) -> SiteOut:
-    with db.writing() as session:
-        site = get(session, Site, site_id)
+def update_site(site_id: RecordId, body: SiteUpdate, db: Db, viewer: Managing) -> SiteOut:
+    with db.writing(viewer.actor) as session:
+        site = viewer.get(session, Site, site_id)
         changes = body.model_dump(exclude_unset=True)
         return SiteOut.model_validate(
             register.update_site(session=session, site=site, changes=changes)
@@ -52,9 +54,9 @@ def update_site(site_id: RecordId, body: SiteUpdate, db: Db) -> SiteOut:
 
 
 @router.delete("/sites/{site_id}", status_code=204, summary="Delete a site with no traps")
-def delete_site(site_id: RecordId, db: Db) -> Response:
-    with db.writing() as session:
-        register.delete_site(session=session, site=get(session, Site, site_id))
+def delete_site(site_id: RecordId, db: Db, viewer: Administering) -> Response:
+    with db.writing(viewer.actor) as session:
+        register.delete_site(session=session, site=viewer.get(session, Site, site_id))
     return Response(status_code=204)
 
 
@@ -70,13 +72,14 @@ def survey_of_site(session: Session, site: Site, survey_id: int) -> Survey:
 def summary(
     site_id: RecordId,
     db: Db,
+    viewer: Reading,
     survey_id: Annotated[
         int | None,
         Query(ge=1, le=MAX_RECORD_ID, description="Default: the latest survey"),
     ] = None,
 ) -> SummaryOut:
     with db.reading() as session:
-        site = get(session, Site, site_id)
+        site = viewer.get(session, Site, site_id)
         survey = (
             latest_survey(session=session, site=site)
             if survey_id is None
@@ -87,10 +90,10 @@ def summary(
 
 @router.get("/sites/{site_id}/compare", summary="What changed from one survey to another")
 def compare(
-    site_id: RecordId, from_survey: RecordIdQuery, to_survey: RecordIdQuery, db: Db
+    site_id: RecordId, from_survey: RecordIdQuery, to_survey: RecordIdQuery, db: Db, viewer: Reading
 ) -> ComparisonOut:
     with db.reading() as session:
-        site = get(session, Site, site_id)
+        site = viewer.get(session, Site, site_id)
         before = survey_of_site(session, site, from_survey)
         after = survey_of_site(session, site, to_survey)
         return ComparisonOut.of(

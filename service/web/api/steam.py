@@ -2,9 +2,10 @@
 
 from typing import Annotated, Self
 
-from fastapi import APIRouter, Query
+from fastapi import APIRouter, Depends, Query
 from pydantic import BaseModel, ConfigDict, Field, model_validator
 
+from service.accounts.roles import Permission
 from service.physics import steam_tables
 from service.physics.states import (
     Phase,
@@ -13,10 +14,13 @@ from service.physics.states import (
     state_from_quality,
     state_from_temperature,
 )
+from service.web.access import require
 from service.web.api.inputs import AbsolutePressure, GaugePressure, SiteInput
 from service.web.errors import reported_against
 
-router = APIRouter(prefix="/steam", tags=["steam"])
+router = APIRouter(
+    prefix="/steam", tags=["steam"], dependencies=[Depends(require(Permission.READ))]
+)
 
 
 def _exactly_one(model: BaseModel, fields: tuple[str, ...]) -> None:

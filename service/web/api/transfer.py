@@ -13,11 +13,12 @@ from service.reports.exports import repair_list_csv
 from service.reports.schemas import SummaryOut
 from service.reports.summary import site_summary
 from service.store import exports, imports
+from service.store.audit import Actor
 from service.store.csv_format import MAX_CSV_BYTES
 from service.store.database import Database
 from service.store.models import Site, Survey
-from service.store.records import get
 from service.store.surveys import latest_survey
+from service.web.access import Managing, Reading
 from service.web.api.sites import survey_of_site
 from service.web.dependencies import Db, OptionalRecordIdQuery, RecordId
 
@@ -71,12 +72,13 @@ async def _upload(request: Request) -> bytes:
 
 def _run_import(
     database: Database,
+    actor: Actor,
     content: bytes,
     commit: bool,
     plan: Callable[[Session], imports.ImportPlan[Any]],
     apply: Callable[[Session, imports.ImportPlan[Any]], None],
 ) -> JSONResponse:
-    with database.writing() as session:
+    with database.writing(actor) as session:
         found = plan(session)
         committed = commit and found.clean
         if committed:
@@ -100,6 +102,7 @@ def _run_import(
 async def _import(
     request: Request,
     database: Database,
+    actor: Actor,
     commit: bool,
     plan: Callable[[Session, bytes], imports.ImportPlan[Any]],
     apply: Callable[[Session, imports.ImportPlan[Any]], None],
@@ -112,14 +115,27 @@ async def _import(
             content={"detail": f"the file is larger than {MAX_CSV_BYTES // (1024 * 1024)} MB"},
         )
     return await run_in_threadpool(
-        _run_import, database, content, commit, lambda session: plan(session, content), apply
+        _run_import, database, actor, content, commit, lambda session: plan(session, content), apply
     )
 
 
 RESPONSES: dict[int | str, dict[str, Any]] = {
     200: {"model": ImportOut},
     413: {"description": "The file is too large"},
-    422: {"model": ImportOut, "description": "commit=true and the file has problems"},
+    422: {
+        "description": "commit=true and the file has problems (an ImportOut), or a bad "
+        "query parameter (a validation error)",
+        "content": {
+            "application/json": {
+                "schema": {
+                    "anyOf": [
+                        {"$ref": "#/components/schemas/ImportOut"},
+                        {"$ref": "#/components/schemas/HTTPValidationError"},
+                    ]
+                }
+            }
+        },
+    },
 }
 
 
@@ -131,17 +147,17 @@ RESPONSES: dict[int | str, dict[str, Any]] = {
     response_model=None,
 )
 async def import_register(
-    site_id: RecordId, request: Request, db: Db, commit: Commit = False
+    site_id: RecordId, request: Request, db: Db, viewer: Managing, commit: Commit = False
 ) -> JSONResponse:
     def plan(session: Session, content: bytes) -> imports.ImportPlan[Any]:
         return imports.plan_register(
-            session=session, site=get(session, Site, site_id), content=content
+            session=session, site=viewer.get(session, Site, site_id), content=content
         )
 
     def apply(session: Session, found: imports.ImportPlan[Any]) -> None:
-        imports.apply_register(session=session, site=get(session, Site, site_id), plan=found)
+        imports.apply_register(session=session, site=viewer.get(session, Site, site_id), plan=found)
 
-    return await _import(request, db, commit, plan, apply)
+    return await _import(request, db, viewer.actor, commit, plan, apply)
 
 
 @router.post(
@@ -152,16 +168,18 @@ async def import_register(
     response_model=None,
 )
 async def import_findings(
-    survey_id: RecordId, request: Request, db: Db, commit: Commit = False
+    survey_id: RecordId, request: Request, db: Db, viewer: Managing, commit: Commit = False
 ) -> JSONResponse:
     def plan(session: Session, content: bytes) -> imports.ImportPlan[Any]:
-        survey = get(session, Survey, survey_id)
+        survey = viewer.get(session, Survey, survey_id)
         return imports.plan_findings(session=session, survey=survey, content=content)
 
     def apply(session: Session, found: imports.ImportPlan[Any]) -> None:
-        imports.apply_findings(session=session, survey=get(session, Survey, survey_id), plan=found)
+        imports.apply_findings(
+            session=session, survey=viewer.get(session, Survey, survey_id), plan=found
+        )
 
-    return await _import(request, db, commit, plan, apply)
+    return await _import(request, db, viewer.actor, commit, plan, apply)
 
 
 @router.post(
@@ -172,17 +190,17 @@ async def import_findings(
     response_model=None,
 )
 async def import_repairs(
-    site_id: RecordId, request: Request, db: Db, commit: Commit = False
+    site_id: RecordId, request: Request, db: Db, viewer: Managing, commit: Commit = False
 ) -> JSONResponse:
     def plan(session: Session, content: bytes) -> imports.ImportPlan[Any]:
         return imports.plan_repairs(
-            session=session, site=get(session, Site, site_id), content=content
+            session=session, site=viewer.get(session, Site, site_id), content=content
         )
 
     def apply(session: Session, found: imports.ImportPlan[Any]) -> None:
         imports.apply_repairs(session=session, plan=found)
 
-    return await _import(request, db, commit, plan, apply)
+    return await _import(request, db, viewer.actor, commit, plan, apply)
 
 
 def _csv_response(text: str, filename: str) -> Response:
@@ -204,9 +222,9 @@ CSV_RESPONSE: dict[int | str, dict[str, Any]] = {
     response_class=Response,
     responses=CSV_RESPONSE,
 )
-def export_register(site_id: RecordId, db: Db) -> Response:
+def export_register(site_id: RecordId, db: Db, viewer: Reading) -> Response:
     with db.reading() as session:
-        site = get(session, Site, site_id)
+        site = viewer.get(session, Site, site_id)
         return _csv_response(exports.register_csv(session=session, site=site), "register.csv")
 
 
@@ -216,9 +234,9 @@ def export_register(site_id: RecordId, db: Db) -> Response:
     response_class=Response,
     responses=CSV_RESPONSE,
 )
-def export_findings(survey_id: RecordId, db: Db) -> Response:
+def export_findings(survey_id: RecordId, db: Db, viewer: Reading) -> Response:
     with db.reading() as session:
-        survey = get(session, Survey, survey_id)
+        survey = viewer.get(session, Survey, survey_id)
         return _csv_response(exports.findings_csv(session=session, survey=survey), "findings.csv")
 
 
@@ -228,9 +246,9 @@ def export_findings(survey_id: RecordId, db: Db) -> Response:
     response_class=Response,
     responses=CSV_RESPONSE,
 )
-def export_repairs(site_id: RecordId, db: Db) -> Response:
+def export_repairs(site_id: RecordId, db: Db, viewer: Reading) -> Response:
     with db.reading() as session:
-        site = get(session, Site, site_id)
+        site = viewer.get(session, Site, site_id)
         return _csv_response(exports.repairs_csv(session=session, site=site), "repairs.csv")
 
 
@@ -241,10 +259,10 @@ def export_repairs(site_id: RecordId, db: Db) -> Response:
     responses=CSV_RESPONSE,
 )
 def export_repair_list(
-    site_id: RecordId, db: Db, survey_id: OptionalRecordIdQuery = None
+    site_id: RecordId, db: Db, viewer: Reading, survey_id: OptionalRecordIdQuery = None
 ) -> Response:
     with db.reading() as session:
-        site = get(session, Site, site_id)
+        site = viewer.get(session, Site, site_id)
         survey = (
             latest_survey(session=session, site=site)
             if survey_id is None

@@ -8,9 +8,9 @@ from pydantic import BaseModel
 from service.physics.conditions import TrapCondition
 from service.store import register
 from service.store.models import Site, Trap
-from service.store.records import get
 from service.store.schemas import TrapCreate, TrapOut, TrapUpdate
 from service.store.vocabulary import Application, TrapType
+from service.web.access import Managing, Reading, Recording
 from service.web.dependencies import Db, OptionalRecordIdQuery, PageOut, PagingDep, RecordId
 
 router = APIRouter(tags=["traps"])
@@ -25,9 +25,9 @@ class TrapRemoved(BaseModel):
 
 
 @router.post("/sites/{site_id}/traps", status_code=201, summary="Add a trap to the register")
-def create_trap(site_id: RecordId, body: TrapCreate, db: Db) -> TrapOut:
-    with db.writing() as session:
-        site = get(session, Site, site_id)
+def create_trap(site_id: RecordId, body: TrapCreate, db: Db, viewer: Recording) -> TrapOut:
+    with db.writing(viewer.actor) as session:
+        site = viewer.get(session, Site, site_id)
         return TrapOut.model_validate(register.create_trap(session=session, site=site, data=body))
 
 
@@ -35,6 +35,7 @@ def create_trap(site_id: RecordId, body: TrapCreate, db: Db) -> TrapOut:
 def list_traps(
     site_id: RecordId,
     db: Db,
+    viewer: Reading,
     paging: PagingDep,
     area_id: OptionalRecordIdQuery = None,
     condition: Annotated[
@@ -54,7 +55,7 @@ def list_traps(
         in_service=in_service,
     )
     with db.reading() as session:
-        site = get(session, Site, site_id)
+        site = viewer.get(session, Site, site_id)
         page = register.list_traps(
             session=session, site=site, where=where, limit=paging.limit, offset=paging.offset
         )
@@ -62,15 +63,15 @@ def list_traps(
 
 
 @router.get("/traps/{trap_id}", summary="One trap")
-def read_trap(trap_id: RecordId, db: Db) -> TrapOut:
+def read_trap(trap_id: RecordId, db: Db, viewer: Reading) -> TrapOut:
     with db.reading() as session:
-        return TrapOut.model_validate(get(session, Trap, trap_id))
+        return TrapOut.model_validate(viewer.get(session, Trap, trap_id))
 
 
 @router.patch("/traps/{trap_id}", summary="Change a trap")
-def update_trap(trap_id: RecordId, body: TrapUpdate, db: Db) -> TrapOut:
-    with db.writing() as session:
-        trap = get(session, Trap, trap_id)
+def update_trap(trap_id: RecordId, body: TrapUpdate, db: Db, viewer: Managing) -> TrapOut:
+    with db.writing(viewer.actor) as session:
+        trap = viewer.get(session, Trap, trap_id)
         changes = body.model_dump(exclude_unset=True)
         return TrapOut.model_validate(
             register.update_trap(session=session, trap=trap, changes=changes)
@@ -78,8 +79,8 @@ def update_trap(trap_id: RecordId, body: TrapUpdate, db: Db) -> TrapOut:
 
 
 @router.delete("/traps/{trap_id}", summary="Delete a trap, or retire one that has history")
-def delete_trap(trap_id: RecordId, db: Db) -> TrapRemoved:
-    with db.writing() as session:
-        trap = get(session, Trap, trap_id)
+def delete_trap(trap_id: RecordId, db: Db, viewer: Managing) -> TrapRemoved:
+    with db.writing(viewer.actor) as session:
+        trap = viewer.get(session, Trap, trap_id)
         deleted = register.retire_or_delete_trap(session=session, trap=trap)
         return TrapRemoved(deleted=deleted, retired=not deleted, trap=TrapOut.model_validate(trap))

@@ -3,10 +3,11 @@ for an engineer checking a number by hand. Nothing is stored, so every form is a
 
 from typing import Any
 
-from fastapi import APIRouter, Request
+from fastapi import APIRouter, Depends, Request
 from fastapi.responses import HTMLResponse
 from pydantic import ValidationError
 
+from service.accounts.roles import Permission
 from service.physics import steam_tables
 from service.physics.conditions import TrapCondition
 from service.physics.flash import flash_of_condensate
@@ -14,12 +15,13 @@ from service.physics.pressure import absolute_from_gauge
 from service.physics.states import state_from_enthalpy, state_from_quality, state_from_temperature
 from service.physics.trap_loss import CondensateDestination, trap_loss
 from service.physics.units import Dimension, UnitSystem
+from service.web.access import require
 from service.web.api.calc import TrapLossIn
 from service.web.display import Display
 from service.web.forms import Form
 from service.web.pages.templating import page
 
-router = APIRouter(include_in_schema=False)
+router = APIRouter(include_in_schema=False, dependencies=[Depends(require(Permission.READ))])
 
 
 def _required(form: Form, name: str, value: float | None) -> float | None:

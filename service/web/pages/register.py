@@ -10,11 +10,11 @@ from sqlalchemy import select
 
 from service.physics.conditions import TrapCondition
 from service.reports.pricing import SitePricing
-from service.store import register, surveys
+from service.store import audit, register, surveys
 from service.store.latest import latest_conditions
 from service.store.models import Finding, Repair, Site, Survey, Trap
-from service.store.records import get
 from service.store.vocabulary import Application, TrapType
+from service.web.access import Reading
 from service.web.dependencies import Db, RecordId, record_id
 from service.web.pages.templating import page
 
@@ -38,6 +38,7 @@ def register_page(
     request: Request,
     site_id: RecordId,
     db: Db,
+    viewer: Reading,
     q: Annotated[str, Query(max_length=40)] = "",
     area_id: str = "",
     application: str = "",
@@ -60,7 +61,7 @@ def register_page(
         "condition": condition,
     }
     with db.reading() as session:
-        site = get(session, Site, site_id)
+        site = viewer.get(session, Site, site_id)
         found = register.list_traps(
             session=session, site=site, where=where, limit=PAGE_SIZE, offset=offset
         )
@@ -82,10 +83,10 @@ def register_page(
 
 
 @router.get("/traps/{trap_id}", response_class=HTMLResponse)
-def trap_page(request: Request, trap_id: RecordId, db: Db) -> HTMLResponse:
+def trap_page(request: Request, trap_id: RecordId, db: Db, viewer: Reading) -> HTMLResponse:
     with db.reading() as session:
-        trap = get(session, Trap, trap_id)
-        site = get(session, Site, trap.site_id)
+        trap = viewer.get(session, Trap, trap_id)
+        site = viewer.get(session, Site, trap.site_id)
         findings = session.execute(
             select(Finding, Survey.name)
             .join(Survey, Survey.id == Finding.survey_id)
@@ -116,4 +117,5 @@ def trap_page(request: Request, trap_id: RecordId, db: Db) -> HTMLResponse:
             latest=latest,
             loss=loss,
             surveys=surveys.surveys_of(session=session, site=site),
+            entries=audit.trail_of_trap(session, trap.id),
         )

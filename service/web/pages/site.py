@@ -19,9 +19,9 @@ from service.reports.summary import site_summary
 from service.store import exports, register, surveys
 from service.store.errors import ConflictError, FieldError
 from service.store.models import Site, Survey
-from service.store.records import get
 from service.store.schemas import SurveyCreate
 from service.store.vocabulary import CostBasis
+from service.web.access import Managing, Reading
 from service.web.api.sites import survey_of_site
 from service.web.dependencies import MAX_RECORD_ID, Db, RecordId
 from service.web.display import Display
@@ -96,9 +96,13 @@ def summary_context(
 
 
 @router.get("/", response_class=HTMLResponse)
-def sites(request: Request, db: Db) -> HTMLResponse:
+def sites(request: Request, db: Db, viewer: Reading) -> HTMLResponse:
     with db.reading() as session:
-        found = session.scalars(select(Site).order_by(Site.name)).all()
+        found = [
+            each
+            for each in session.scalars(select(Site).order_by(Site.name))
+            if viewer.sees(each.id)
+        ]
         headlines: dict[int, SummaryOut | None] = {}
         for each in found:
             latest = surveys.latest_survey(session=session, site=each)
@@ -121,16 +125,16 @@ def sites(request: Request, db: Db) -> HTMLResponse:
 
 
 @router.get("/sites/{site_id}", response_class=HTMLResponse)
-def site_home(request: Request, site_id: RecordId, db: Db) -> HTMLResponse:
+def site_home(request: Request, site_id: RecordId, db: Db, viewer: Reading) -> HTMLResponse:
     with db.reading() as session:
-        site = get(session, Site, site_id)
+        site = viewer.get(session, Site, site_id)
         survey = surveys.latest_survey(session=session, site=site)
         context = summary_context(request, session, site, survey)
         return page(request, "site_home.html", site=site, **context)
 
 
 @router.post("/sites/{site_id}/surveys", response_class=HTMLResponse)
-async def start_survey(request: Request, site_id: RecordId, db: Db) -> Response:
+async def start_survey(request: Request, site_id: RecordId, db: Db, viewer: Managing) -> Response:
     form = await Form.of(request)
     fields = {
         "name": form.text("name"),
@@ -138,8 +142,8 @@ async def start_survey(request: Request, site_id: RecordId, db: Db) -> Response:
         "notes": form.text("notes"),
     }
     try:
-        with db.writing() as session:
-            site = get(session, Site, site_id)
+        with db.writing(viewer.actor) as session:
+            site = viewer.get(session, Site, site_id)
             data = SurveyCreate.model_validate(fields)
             survey = surveys.create_survey(session=session, site=site, data=data)
         return RedirectResponse(f"/surveys/{survey.id}/walk", status_code=303)
@@ -148,7 +152,7 @@ async def start_survey(request: Request, site_id: RecordId, db: Db) -> Response:
     except ConflictError as error:
         form.errors["name"] = str(error)
     with db.reading() as session:
-        site = get(session, Site, site_id)
+        site = viewer.get(session, Site, site_id)
         context = summary_context(
             request, session, site, surveys.latest_survey(session=session, site=site)
         )
@@ -162,20 +166,20 @@ SurveyId = Annotated[
 
 @router.get("/sites/{site_id}/summary", response_class=HTMLResponse)
 def summary_page(
-    request: Request, site_id: RecordId, db: Db, survey_id: SurveyId = None
+    request: Request, site_id: RecordId, db: Db, viewer: Reading, survey_id: SurveyId = None
 ) -> HTMLResponse:
     with db.reading() as session:
-        site = get(session, Site, site_id)
+        site = viewer.get(session, Site, site_id)
         context = summary_context(request, session, site, survey_choice(session, site, survey_id))
         return page(request, "summary.html", site=site, **context)
 
 
 @router.get("/sites/{site_id}/report", response_class=HTMLResponse)
 def report_page(
-    request: Request, site_id: RecordId, db: Db, survey_id: SurveyId = None
+    request: Request, site_id: RecordId, db: Db, viewer: Reading, survey_id: SurveyId = None
 ) -> HTMLResponse:
     with db.reading() as session:
-        site = get(session, Site, site_id)
+        site = viewer.get(session, Site, site_id)
         context = summary_context(
             request, session, site, survey_choice(session, site, survey_id), row_limit=None
         )
@@ -195,10 +199,10 @@ XLSX = "application/vnd.openxmlformats-officedocument.spreadsheetml.sheet"
 
 @router.get("/sites/{site_id}/downloads/repair-list.{suffix}")
 def repair_list_download(
-    site_id: RecordId, suffix: str, db: Db, survey_id: SurveyId = None
+    site_id: RecordId, suffix: str, db: Db, viewer: Reading, survey_id: SurveyId = None
 ) -> Response:
     with db.reading() as session:
-        site = get(session, Site, site_id)
+        site = viewer.get(session, Site, site_id)
         survey = survey_choice(session, site, survey_id)
         summary = SummaryOut.of(site_summary(session=session, site=site, survey=survey))
     if suffix == "csv":
@@ -211,9 +215,9 @@ def repair_list_download(
 
 
 @router.get("/surveys/{survey_id}/downloads/findings.{suffix}")
-def findings_download(survey_id: RecordId, suffix: str, db: Db) -> Response:
+def findings_download(survey_id: RecordId, suffix: str, db: Db, viewer: Reading) -> Response:
     with db.reading() as session:
-        survey = get(session, Survey, survey_id)
+        survey = viewer.get(session, Survey, survey_id)
         if suffix == "csv":
             text = exports.findings_csv(session=session, survey=survey)
             return _download(text, "findings.csv", "text/csv; charset=utf-8")
@@ -359,9 +363,11 @@ def _settings_page(
 
 
 @router.get("/sites/{site_id}/settings", response_class=HTMLResponse)
-def settings_page(request: Request, site_id: RecordId, db: Db, saved: bool = False) -> HTMLResponse:
+def settings_page(
+    request: Request, site_id: RecordId, db: Db, viewer: Managing, saved: bool = False
+) -> HTMLResponse:
     with db.reading() as session:
-        site = get(session, Site, site_id)
+        site = viewer.get(session, Site, site_id)
         form = Form(_settings_typed(site, display_for(site)))
         return _settings_page(request, site, form, saved, 200)
 
@@ -371,11 +377,11 @@ class _Refused(Exception):  # noqa: N818 - the form was refused, with reasons in
 
 
 @router.post("/sites/{site_id}/settings", response_class=HTMLResponse)
-async def save_settings(request: Request, site_id: RecordId, db: Db) -> Response:
+async def save_settings(request: Request, site_id: RecordId, db: Db, viewer: Managing) -> Response:
     form = await Form.of(request)
     try:
-        with db.writing() as session:
-            site = get(session, Site, site_id)
+        with db.writing(viewer.actor) as session:
+            site = viewer.get(session, Site, site_id)
             # Typed figures are in the units the site shows now, before any change of system.
             changes = _settings_changes(form, site, display_for(site))
             if not form.ok:
@@ -392,7 +398,7 @@ async def save_settings(request: Request, site_id: RecordId, db: Db) -> Response
     if form.ok:
         return RedirectResponse(f"/sites/{site_id}/settings?saved=true", status_code=303)
     with db.reading() as session:
-        return _settings_page(request, get(session, Site, site_id), form, False, 422)
+        return _settings_page(request, viewer.get(session, Site, site_id), form, False, 422)
 
 
 def _absorb_site_errors(form: Form, error: ValidationError) -> None:

@@ -8,6 +8,7 @@ from fastapi.responses import HTMLResponse
 from fastapi.templating import Jinja2Templates
 
 from service import __version__
+from service.accounts.roles import Permission
 from service.physics.conditions import TrapCondition, is_failed, is_flooding_risk
 from service.store.models import Site
 from service.store.vocabulary import label
@@ -22,6 +23,7 @@ templates.env.globals.update(
     conditions=list(TrapCondition),
     is_failed=is_failed,
     is_flooding_risk=is_flooding_risk,
+    Permission=Permission,
 )
 templates.env.trim_blocks = True
 templates.env.lstrip_blocks = True
@@ -45,10 +47,18 @@ def page(
     status_code: int = 200,
     **context: Any,
 ) -> HTMLResponse:
-    """A rendered page; `show` formats numbers in the site's units."""
+    """A rendered page; `show` formats numbers in the site's units; `viewer` is who is
+    signed in (None on the sign-in page), and `csrf_token` goes in every changing form."""
+    viewer = getattr(request.state, "viewer", None)
     return templates.TemplateResponse(
         request,
         template,
-        {"site": site, "show": display_for(site), **context},
+        {
+            "site": site,
+            "show": display_for(site),
+            "viewer": viewer,
+            "csrf_token": viewer.csrf_token if viewer is not None else "",
+            **context,
+        },
         status_code=status_code,
     )

@@ -14,6 +14,7 @@ from service.store import imports, surveys
 from service.store.csv_format import MAX_CSV_BYTES, UnreadableFile
 from service.store.models import Site, Survey
 from service.store.records import get
+from service.web.access import Managing
 from service.web.dependencies import Db, RecordId, record_id
 from service.web.pages.templating import page
 
@@ -60,9 +61,11 @@ def _import_page(
 
 
 @router.get("/sites/{site_id}/import", response_class=HTMLResponse)
-def import_form(request: Request, site_id: RecordId, db: Db, done: str = "") -> HTMLResponse:
+def import_form(
+    request: Request, site_id: RecordId, db: Db, viewer: Managing, done: str = ""
+) -> HTMLResponse:
     with db.reading() as session:
-        site = get(session, Site, site_id)
+        site = viewer.get(session, Site, site_id)
         return _import_page(request, session, site, done=done, kind="register")
 
 
@@ -85,13 +88,15 @@ async def _upload(request: Request) -> tuple[dict[str, str], bytes | None, str |
 
 
 @router.post("/sites/{site_id}/import", response_class=HTMLResponse)
-async def preview_or_confirm(request: Request, site_id: RecordId, db: Db) -> Response:
+async def preview_or_confirm(
+    request: Request, site_id: RecordId, db: Db, viewer: Managing
+) -> Response:
     fields, content, refusal = await _upload(request)
     kind = fields.get("kind", "register") if fields.get("kind") in KINDS else "register"
     survey_id = record_id(fields.get("survey_id", ""))
     confirm = fields.get("confirm") == "yes"
-    with db.writing() as session:
-        site = get(session, Site, site_id)
+    with db.writing(viewer.actor) as session:
+        site = viewer.get(session, Site, site_id)
         if content is None or not content:
             return _import_page(
                 request,

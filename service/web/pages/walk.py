@@ -24,6 +24,7 @@ from service.store.models import Finding, Site, Survey, Trap
 from service.store.records import get
 from service.store.schemas import FindingCreate, TrapCreate
 from service.store.vocabulary import Application, RecommendedAction, TestMethod, TrapType
+from service.web.access import Reading, Recording
 from service.web.dependencies import Db, OptionalRecordIdQuery, RecordId, record_id
 from service.web.forms import Form
 from service.web.pages.templating import display_for, page
@@ -48,9 +49,9 @@ def _next_untested(route: list[SummaryRow], after_trap_id: int | None) -> Summar
 
 
 @router.get("/sites/{site_id}/walk")
-def site_walk(site_id: RecordId, db: Db) -> Response:
+def site_walk(site_id: RecordId, db: Db, viewer: Reading) -> Response:
     with db.reading() as session:
-        site = get(session, Site, site_id)
+        site = viewer.get(session, Site, site_id)
         survey = surveys.latest_survey(session=session, site=site)
     target = f"/surveys/{survey.id}/walk" if survey else f"/sites/{site_id}#start-survey"
     return RedirectResponse(target, status_code=303)
@@ -64,12 +65,13 @@ def walk(
     request: Request,
     survey_id: RecordId,
     db: Db,
+    viewer: Reading,
     area: str | None = None,
     offset: Annotated[int, Query(ge=0)] = 0,
 ) -> HTMLResponse:
     with db.reading() as session:
-        survey = get(session, Survey, survey_id)
-        site = get(session, Site, survey.site_id)
+        survey = viewer.get(session, Survey, survey_id)
+        site = viewer.get(session, Site, survey.site_id)
         route = _route(session, site, survey)
         areas = list(dict.fromkeys(row.area_name or "(no area)" for row in route))
         shown = [row for row in route if area in (None, "", row.area_name or "(no area)")]
@@ -147,10 +149,11 @@ def finding_form(
     survey_id: RecordId,
     trap_id: RecordId,
     db: Db,
+    viewer: Reading,
     saved: OptionalRecordIdQuery = None,
 ) -> HTMLResponse:
     with db.reading() as session:
-        survey = get(session, Survey, survey_id)
+        survey = viewer.get(session, Survey, survey_id)
         trap = _trap_of_survey(session, survey, trap_id)
         stored = session.get(Finding, saved) if saved is not None else None
         return _finding_page(request, session, survey, trap, _blank_form(request), saved=stored)
@@ -184,14 +187,14 @@ FORM_NAMES = {
 
 @router.post("/surveys/{survey_id}/walk/traps/{trap_id}", response_class=HTMLResponse)
 async def save_finding(
-    request: Request, survey_id: RecordId, trap_id: RecordId, db: Db
+    request: Request, survey_id: RecordId, trap_id: RecordId, db: Db, viewer: Recording
 ) -> Response:
     form = await Form.of(request)
     key = form.text("idempotency_key") or None
-    with db.writing() as session:
-        survey = get(session, Survey, survey_id)
+    with db.writing(viewer.actor) as session:
+        survey = viewer.get(session, Survey, survey_id)
         trap = _trap_of_survey(session, survey, trap_id)
-        site = get(session, Site, survey.site_id)
+        site = viewer.get(session, Site, survey.site_id)
         fields = _finding_fields(form, trap, site)
         finding: Finding | None = None
         if form.ok:
@@ -254,18 +257,18 @@ def _new_trap_page(
 
 
 @router.get("/surveys/{survey_id}/walk/new-trap", response_class=HTMLResponse)
-def new_trap_form(request: Request, survey_id: RecordId, db: Db) -> HTMLResponse:
+def new_trap_form(request: Request, survey_id: RecordId, db: Db, viewer: Recording) -> HTMLResponse:
     with db.reading() as session:
-        survey = get(session, Survey, survey_id)
+        survey = viewer.get(session, Survey, survey_id)
         return _new_trap_page(request, session, survey, Form({}))
 
 
 @router.post("/surveys/{survey_id}/walk/new-trap", response_class=HTMLResponse)
-async def add_trap(request: Request, survey_id: RecordId, db: Db) -> Response:
+async def add_trap(request: Request, survey_id: RecordId, db: Db, viewer: Recording) -> Response:
     form = await Form.of(request)
-    with db.writing() as session:
-        survey = get(session, Survey, survey_id)
-        site = get(session, Site, survey.site_id)
+    with db.writing(viewer.actor) as session:
+        survey = viewer.get(session, Survey, survey_id)
+        site = viewer.get(session, Site, survey.site_id)
         show = display_for(site)
         fields = {
             "tag": form.text("tag"),
