@@ -2,6 +2,7 @@
 
 import asyncio
 import contextlib
+import secrets
 import socket
 import subprocess
 import sys
@@ -10,6 +11,26 @@ from collections.abc import Callable, Iterator
 from typing import Any
 
 import httpx
+
+from service.accounts import tokens, users
+from service.store.database import Database
+from service.store.models import Role
+
+
+def bearer_for(
+    database_url: str, name: str, role: Role, site_ids: tuple[int, ...] = ()
+) -> dict[str, str]:
+    """Headers with a new API token of the user `name` (made with a random password when
+    new) in the database at `database_url`, migrated first."""
+    database = Database.at(database_url)
+    database.upgrade()
+    with database.writing() as session:
+        user = users.user_named(session, name) or users.add_user(
+            session, name=name, role=role, password=secrets.token_urlsafe(16), site_ids=site_ids
+        )
+        secret, _ = tokens.create_token(session, user, "benchmark")
+    database.dispose()
+    return {"Authorization": f"Bearer {secret}"}
 
 
 def heading(title: str) -> None:
@@ -55,7 +76,11 @@ def served(database_url: str, *extra: str) -> Iterator[str]:
 
 
 async def load(
-    url: str, body_for: Callable[[int], dict[str, Any]], seconds: float, workers: int
+    url: str,
+    body_for: Callable[[int], dict[str, Any]],
+    seconds: float,
+    workers: int,
+    headers: dict[str, str],
 ) -> tuple[list[float], int]:
     latencies: list[float] = []
     errors = 0
@@ -71,7 +96,7 @@ async def load(
             errors += answer.status_code != 200
             sent += 1
 
-    async with httpx.AsyncClient(timeout=10) as client:
+    async with httpx.AsyncClient(timeout=10, headers=headers) as client:
         await asyncio.gather(*(worker(client, number) for number in range(workers)))
     return latencies, errors
 

@@ -6,11 +6,11 @@ from pathlib import Path
 from fastapi.testclient import TestClient
 from sqlalchemy import select
 
-from bench.common import heading
+from bench.common import bearer_for, heading
 from bench.scale import _build_site
 from service.store.database import Database
 from service.store.demo import load_demo
-from service.store.models import Site, Survey, Trap
+from service.store.models import Role, Site, Survey, Trap
 from service.web.app import create_app
 
 
@@ -43,7 +43,8 @@ def run(tmp: Path) -> None:
         demo = session.scalar(select(Site.id).where(Site.name == "Wrenfield Board Mill"))
         survey = session.scalar(select(Survey.id).where(Survey.site_id == demo))
         trap = session.scalar(select(Trap.id).where(Trap.site_id == demo).order_by(Trap.id))
-    with TestClient(create_app(database)) as client:
+    headers = bearer_for(f"sqlite:///{path}", "bench-admin", Role.ADMIN)
+    with TestClient(create_app(database), headers=headers) as client:
         api_seconds, api_bytes = _best_seconds(client, f"/api/v1/sites/{big}/summary")
         cold_seconds, _ = _best_seconds(client, f"/sites/{big}/summary", repeats=1)
         page_seconds, page_bytes = _best_seconds(client, f"/sites/{big}/summary")

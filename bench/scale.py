@@ -12,12 +12,12 @@ from typing import Any
 
 import httpx
 
-from bench.common import heading, served
+from bench.common import bearer_for, heading, served
 from service.reports.schemas import SummaryOut
 from service.reports.summary import site_summary, summary_rows
 from service.store import imports, register, surveys
 from service.store.database import Database
-from service.store.models import Site, Survey
+from service.store.models import Role, Site, Survey
 from service.store.schemas import SiteCreate, SurveyCreate
 
 PRESSURE_LEVELS_KPA_G = [1000.0, 850.0, 700.0, 550.0, 400.0, 300.0, 200.0, 100.0, 50.0]
@@ -194,11 +194,11 @@ def run(tmp: Path) -> None:
 
 
 async def _writers(
-    base: str, survey_id: int, trap_ids: list[int], writers: int, each: int
+    base: str, survey_id: int, trap_ids: list[int], writers: list[dict[str, str]], each: int
 ) -> tuple[int, int, float]:
     errors = 0
 
-    async def writer(client: httpx.AsyncClient, number: int) -> None:
+    async def writer(number: int) -> None:
         nonlocal errors
         for index in range(each):
             body = {
@@ -207,7 +207,7 @@ async def _writers(
                 "method": "ultrasonic",
                 "condition": "working" if index % 5 else "leaking",
             }
-            answer = await client.post(
+            answer = await clients[number].post(
                 f"{base}/api/v1/surveys/{survey_id}/findings",
                 json=body,
                 headers={"Idempotency-Key": f"writer-{number:02d}-finding-{index:04d}"},
@@ -215,9 +215,11 @@ async def _writers(
             errors += answer.status_code != 201
 
     start = time.perf_counter()
-    async with httpx.AsyncClient(timeout=60) as client:
-        await asyncio.gather(*(writer(client, number) for number in range(writers)))
-    return errors, writers * each, time.perf_counter() - start
+    clients = [httpx.AsyncClient(timeout=60, headers=headers) for headers in writers]
+    await asyncio.gather(*(writer(number) for number in range(len(writers))))
+    for client in clients:
+        await client.aclose()
+    return errors, len(writers) * each, time.perf_counter() - start
 
 
 def run_writers(tmp: Path) -> None:
@@ -226,9 +228,12 @@ def run_writers(tmp: Path) -> None:
     for suffix in ("", "-wal", "-shm"):
         Path(f"{path}{suffix}").unlink(missing_ok=True)
     url = f"sqlite:///{path}"
+    admin = bearer_for(url, "bench-admin", Role.ADMIN)
     with served(url) as base:
         site = httpx.post(
-            f"{base}/api/v1/sites", json={"name": "Writers", "steam_cost_per_tonne": 30}
+            f"{base}/api/v1/sites",
+            json={"name": "Writers", "steam_cost_per_tonne": 30},
+            headers=admin,
         ).json()
         traps = [
             httpx.post(
@@ -241,16 +246,22 @@ def run_writers(tmp: Path) -> None:
                     "inlet_pressure_kpa_g": 700,
                     "return_pressure_kpa_g": 0,
                 },
+                headers=admin,
             ).json()["id"]
             for number in range(40)
         ]
         survey = httpx.post(
             f"{base}/api/v1/sites/{site['id']}/surveys",
             json={"name": "Load", "started_on": "2026-03-02"},
+            headers=admin,
         ).json()
-        errors, sent, seconds = asyncio.run(_writers(base, survey["id"], traps, 8, 200))
+        technicians = [
+            bearer_for(url, f"bench-technician-{number}", Role.TECHNICIAN, (site["id"],))
+            for number in range(8)
+        ]
+        errors, sent, seconds = asyncio.run(_writers(base, survey["id"], traps, technicians, 200))
         stored = httpx.get(
-            f"{base}/api/v1/surveys/{survey['id']}/findings", params={"limit": 1}
+            f"{base}/api/v1/surveys/{survey['id']}/findings", params={"limit": 1}, headers=admin
         ).json()["total"]
     print(f"findings sent {sent}, stored {stored}, error answers {errors}")
     print(f"requests per second: {sent / seconds:7.0f} ({seconds:.1f} s)")

@@ -27,25 +27,43 @@ def sqlite_database(tmp_path_factory: pytest.TempPathFactory) -> Iterator[Databa
     database.dispose()
 
 
-@pytest.fixture(scope="session")
-def postgresql_database() -> Iterator[Database]:
+def new_postgresql_database(server_url: str) -> Database:
+    """A new, migrated database of its own on the PostgreSQL server at `server_url`."""
+    name = f"traptally_test_{uuid.uuid4().hex[:12]}"
+    server = create_engine(server_url, isolation_level="AUTOCOMMIT")
+    with server.connect() as connection:
+        connection.exec_driver_sql(f"CREATE DATABASE {name}")
+    server.dispose()
+    url = make_url(server_url).set(database=name).render_as_string(hide_password=False)
+    database = Database.at(url)
+    database.upgrade()
+    return database
+
+
+def drop_postgresql_database(server_url: str, database: Database) -> None:
+    database.dispose()
+    server = create_engine(server_url, isolation_level="AUTOCOMMIT")
+    with server.connect() as connection:
+        connection.exec_driver_sql(f"DROP DATABASE {database.engine.url.database} WITH (FORCE)")
+    server.dispose()
+
+
+def postgresql_server_url() -> str:
+    """The test server's URL; without one, a failure in CI and a skip elsewhere."""
     server_url = os.environ.get(POSTGRES_VARIABLE)
     if not server_url:
         if os.environ.get("CI"):
             pytest.fail(f"PostgreSQL is required in CI: .ci/run sets {POSTGRES_VARIABLE}")
         pytest.skip(f"no PostgreSQL here: set {POSTGRES_VARIABLE} to run these tests on it")
-    name = f"traptally_test_{uuid.uuid4().hex[:12]}"
-    server = create_engine(server_url, isolation_level="AUTOCOMMIT")
-    with server.connect() as connection:
-        connection.exec_driver_sql(f"CREATE DATABASE {name}")
-    url = make_url(server_url).set(database=name).render_as_string(hide_password=False)
-    database = Database.at(url)
-    database.upgrade()
+    return server_url
+
+
+@pytest.fixture(scope="session")
+def postgresql_database() -> Iterator[Database]:
+    server_url = postgresql_server_url()
+    database = new_postgresql_database(server_url)
     yield database
-    database.dispose()
-    with server.connect() as connection:
-        connection.exec_driver_sql(f"DROP DATABASE {name} WITH (FORCE)")
-    server.dispose()
+    drop_postgresql_database(server_url, database)
 
 
 def emptied(database: Database) -> Database:

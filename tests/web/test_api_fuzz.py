@@ -3,7 +3,9 @@ in as an admin (who may reach every operation): whatever a generated request hol
 answer is never a server error, its status is one the schema documents, and its body and
 content type match the schema. On a SQLite file and on PostgreSQL."""
 
+import os
 import tempfile
+from collections.abc import Iterator
 from pathlib import Path
 from typing import Any
 
@@ -21,7 +23,12 @@ from service.store.database import Database
 from service.store.demo import load_demo
 from service.store.models import Role
 from service.web.app import create_app
-from tests.conftest import emptied
+from tests.conftest import (
+    POSTGRES_VARIABLE,
+    drop_postgresql_database,
+    new_postgresql_database,
+    postgresql_server_url,
+)
 from tests.factories import bearer, make_user
 
 CHECKS = [
@@ -31,7 +38,6 @@ CHECKS = [
     response_schema_conformance,
 ]
 EXAMPLES = 12
-COUNTED: dict[str, int] = {}
 
 
 def _demo(database: Database) -> tuple[Any, dict[str, str]]:
@@ -52,33 +58,39 @@ SQLITE_APP, SQLITE_HEADERS = _sqlite_demo()
 sqlite_schema = schemathesis.openapi.from_asgi("/openapi.json", SQLITE_APP)
 
 
-def _check(case: Any, headers: dict[str, str], backend: str) -> None:
-    COUNTED[backend] = COUNTED.get(backend, 0) + 1
+def _check(case: Any, headers: dict[str, str]) -> None:
     case.call_and_validate(headers=headers, checks=CHECKS)
 
 
 @sqlite_schema.parametrize()
 @settings(max_examples=EXAMPLES, deadline=None, suppress_health_check=list(HealthCheck))
 def test_every_operation_on_sqlite_keeps_to_its_schema(case: Any) -> None:
-    _check(case, SQLITE_HEADERS, "sqlite")
+    _check(case, SQLITE_HEADERS)
 
 
-@pytest.fixture(scope="module")
-def postgresql_app(postgresql_database: Database) -> Any:
-    app, headers = _demo(emptied(postgresql_database))
-    app.state.fuzz_headers = headers
-    return app
+# schemathesis parametrizes at import: the PostgreSQL database is made here too, when the
+# server is named, and dropped when the module's tests are done.
+POSTGRES_URL = os.environ.get(POSTGRES_VARIABLE)
+POSTGRES_DATABASE = new_postgresql_database(POSTGRES_URL) if POSTGRES_URL else None
 
 
-@pytest.fixture(scope="module")
-def postgresql_schema(postgresql_app: Any) -> Any:
-    return schemathesis.openapi.from_asgi("/openapi.json", postgresql_app)
+@pytest.fixture(scope="module", autouse=True)
+def _drop_the_postgresql_database() -> Iterator[None]:
+    yield
+    if POSTGRES_URL and POSTGRES_DATABASE:
+        drop_postgresql_database(POSTGRES_URL, POSTGRES_DATABASE)
 
 
-postgresql_schema_lazily = schemathesis.pytest.from_fixture("postgresql_schema")
+if POSTGRES_DATABASE is not None:
+    POSTGRES_APP, POSTGRES_HEADERS = _demo(POSTGRES_DATABASE)
+    postgresql_schema = schemathesis.openapi.from_asgi("/openapi.json", POSTGRES_APP)
 
+    @postgresql_schema.parametrize()
+    @settings(max_examples=EXAMPLES, deadline=None, suppress_health_check=list(HealthCheck))
+    def test_every_operation_on_postgresql_keeps_to_its_schema(case: Any) -> None:
+        _check(case, POSTGRES_HEADERS)
 
-@postgresql_schema_lazily.parametrize()
-@settings(max_examples=EXAMPLES, deadline=None, suppress_health_check=list(HealthCheck))
-def test_every_operation_on_postgresql_keeps_to_its_schema(case: Any, postgresql_app: Any) -> None:
-    _check(case, postgresql_app.state.fuzz_headers, "postgresql")
+else:
+
+    def test_every_operation_on_postgresql_keeps_to_its_schema() -> None:
+        postgresql_server_url()  # fails in CI, skips elsewhere

@@ -316,3 +316,43 @@ def test_the_audit_trail_says_who_changed_what_from_what_to_what(
     assert tech_api.get(f"/sites/{site['id']}/audit").status_code == 403
     with sqlite_database.reading() as session:
         assert session.get_one(Site, site["id"]).name == site["name"]
+
+
+def test_an_admin_adds_assigns_and_disables_people_from_the_people_page(
+    app: Any, sqlite_database: Database
+) -> None:
+    admin_id = make_user(sqlite_database, "ad", Role.ADMIN)
+    browser, csrf = _signed_in(app, sqlite_database, admin_id)
+    site = make_site(TestClient(app, headers=bearer(sqlite_database, admin_id)))
+    weak = {"csrf_token": csrf, "name": "new.tech", "role": "technician", "password": "12345678"}
+    refused = browser.post("/admin/users", data=weak)
+    assert refused.status_code == 422
+    assert "common passwords" in refused.text
+    assert 'value="new.tech"' in refused.text
+    added = browser.post(
+        "/admin/users",
+        data={**weak, "password": "condensate pot 7", "site_id": str(site["id"])},
+    )
+    assert added.status_code == 303
+    tech_browser = _browser(app)
+    assert _sign_in(tech_browser, "new.tech", "condensate pot 7").status_code == 303
+    assert tech_browser.get(f"/sites/{site['id']}").status_code == 200
+    with sqlite_database.reading() as session:
+        tech = session.scalars(select(User).where(User.name == "new.tech")).one()
+        tech_id = tech.id
+    access = f"/admin/users/{tech_id}/access"
+    assert browser.post(access, data={"csrf_token": csrf, "action": "sites"}).status_code == 303
+    assert tech_browser.get(f"/sites/{site['id']}").status_code == 404  # no longer theirs
+    assert browser.post(access, data={"csrf_token": csrf, "action": "disable"}).status_code == 303
+    assert tech_browser.get("/calculator").status_code == 302  # signed out at once
+    with sqlite_database.reading() as session:
+        changes = session.scalars(
+            select(AuditEntry).where(
+                AuditEntry.record_type == "user", AuditEntry.record_id == tech_id
+            )
+        ).all()
+    assert [entry.action for entry in changes] == ["created", "changed", "changed"]
+    assert changes[1].new_values == {"site_ids": []}
+    assert changes[1].old_values == {"site_ids": [site["id"]]}
+    assert changes[2].new_values == {"disabled": True}
+    assert {entry.actor_name for entry in changes} == {"ad"}

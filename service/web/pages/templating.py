@@ -57,7 +57,7 @@ def page(
             "site": site,
             "show": display_for(site),
             "viewer": viewer,
-            "csrf_token": viewer.csrf_token if viewer is not None else "",
+            "csrf_token": (viewer.csrf_token if viewer is not None else None) or "",
             **context,
         },
         status_code=status_code,
