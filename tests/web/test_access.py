@@ -206,7 +206,7 @@ def database(sqlite_database: Database) -> Iterator[Database]:
     emptied(sqlite_database)
 
 
-@pytest.mark.parametrize(("method", "path"), sorted(TABLE), ids=" ".join)
+@pytest.mark.parametrize(("method", "path"), sorted(TABLE), ids=str)
 def test_each_viewer_gets_the_expected_answer(database: Database, method: str, path: str) -> None:
     permission, scoped, allowed = TABLE[(method, path)]
     page = not path.startswith("/api/")

@@ -37,7 +37,7 @@ CHECKS = [
     content_type_conformance,
     response_schema_conformance,
 ]
-EXAMPLES = 12
+EXAMPLES = 8
 
 
 def _demo(database: Database) -> tuple[Any, dict[str, str]]:
