@@ -61,10 +61,13 @@ def password_matches(stored_hash: str, password: str) -> bool:
         return False
 
 
-# Checked against when no account has the name typed, so that a wrong name takes as long
-# to refuse as a wrong password.
-_NO_SUCH_ACCOUNT = _HASHER.hash("no account has this name")
+@lru_cache(maxsize=1)
+def _no_such_account() -> str:
+    """A hash made on the first sign-in with an unknown name, not at every start-up."""
+    return _HASHER.hash("no account has this name")
 
 
 def spend_time_as_if_checking(password: str) -> None:
-    password_matches(_NO_SUCH_ACCOUNT, password)
+    """Verify against a hash no one has, so that a wrong name takes as long to refuse as a
+    wrong password."""
+    password_matches(_no_such_account(), password)
