@@ -1,9 +1,14 @@
 """What a trap was found doing, and what that means for steam, condensate and risk.
 
-The condition words are the trade's own (shared/DOMAIN.md, "Trap conditions"). Only a
-trap that leaks, blows through or cycles rapidly wastes live steam; a plugged or
-flooded trap wastes none but backs condensate up into the equipment, so it is a risk
-to report, not a zero to forget.
+The condition words are the trade's own. Only a trap that leaks, blows through or
+cycles rapidly wastes live steam; a plugged or flooded trap wastes none but backs
+condensate up into the equipment, so it is a risk to report, not a zero to forget.
+
+Each finding falls in one accounting category (`Finding category`): a failure (its
+live steam is a loss a repair removes), a risk, unknown (not accessible), working, or
+out of service. Installation losses (flash vented, condensate drained) are not a
+category of finding: they follow from where a trap discharges, whatever it was found
+doing, and a repair does not remove them.
 """
 
 from enum import StrEnum
@@ -22,10 +27,20 @@ class TrapCondition(StrEnum):
     NOT_ACCESSIBLE = "not_accessible"
 
 
+class FindingCategory(StrEnum):
+    """Which part of a site's accounting a finding belongs to."""
+
+    FAILURE = "failure"  # wastes live steam: a repair recovers it
+    RISK = "risk"  # floods the equipment: listed and counted, not priced
+    UNKNOWN = "unknown"  # not accessible in this round: its state is not known
+    WORKING = "working"
+    OUT_OF_SERVICE = "out_of_service"
+
+
 NO_LOSS = Spread.exact(0.0)
 
 # Fraction of the orifice's full steam capacity a trap in each condition passes.
-# Common practice, no single confirmed source (shared/DOMAIN.md): blow-through 1.0,
+# Common practice, no single confirmed source: blow-through 1.0,
 # leaking 0.25, rapid cycling 0.2. The ranges are our own judgement of the spread: a
 # blowing trap on a loaded line passes condensate too, which cuts its steam.
 DEFAULT_LOSS_FACTORS: dict[TrapCondition, Spread] = {
@@ -74,6 +89,23 @@ def discharges_condensate(condition: TrapCondition) -> bool:
     losses belong to the installation, whatever the trap's state.
     """
     return condition not in _DISCHARGES_NOTHING
+
+
+def category_of(condition: TrapCondition) -> FindingCategory:
+    """The accounting category of a finding.
+
+    >>> category_of(TrapCondition.PLUGGED).value
+    'risk'
+    """
+    if wastes_live_steam(condition):
+        return FindingCategory.FAILURE
+    if is_flooding_risk(condition):
+        return FindingCategory.RISK
+    if condition is TrapCondition.NOT_ACCESSIBLE:
+        return FindingCategory.UNKNOWN
+    if condition is TrapCondition.OUT_OF_SERVICE:
+        return FindingCategory.OUT_OF_SERVICE
+    return FindingCategory.WORKING
 
 
 def is_failed(condition: TrapCondition) -> bool:

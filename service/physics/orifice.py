@@ -1,23 +1,34 @@
 """Live steam passed by a failed-open trap's orifice.
 
-Two methods:
+Two ideal methods, one answer:
 
-- Napier's equation (1866) for choked flow of saturated steam: W [lb/s] = A [in2] *
+- Napier's equation (1866) for choked flow of dry saturated steam: W [lb/s] = A [in2] *
   p1 [psia] / 70, in SI W [kg/s] = 1.45674e-3 * A [m2] * p1 [Pa]. It is the basis of
-  API 520 Part I steam relief sizing (which adds a correction above 1500 psia).
+  API 520 Part I (2014), section 5.7, steam relief sizing, and of the US DOE Steam Tip
+  Sheet "Inspect and Repair Steam Traps" discharge table.
 - An isentropic homogeneous-equilibrium nozzle computed with IF97: the mass flux at
   the throat is G = sqrt(2 (h1 - ht)) / vt along the isentrope s = s1, maximised over
   the throat pressure (the maximum is the choked flux). It covers every pressure ratio
   and superheated or wet inlet steam.
 
-A real orifice passes less than either ideal: both are multiplied by a discharge
-coefficient Cd (sharp-edged orifices 0.6-0.7; the US DOE Steam Tip Sheet "Inspect
-and Repair Steam Traps" table implies 0.73).
+Napier stays the anchor wherever it holds (choked, dry saturated, up to 1500 psia),
+because the trade's discharge coefficients are fitted to it. Everywhere else the
+nozzle supplies a ratio to that anchor, never a second absolute figure:
 
-A trap's live-steam inlet is dry saturated steam. Its flow is choked while p2/p1 is
-at or below the critical ratio of saturated steam, about 0.58 (shared/DOMAIN.md;
-the ideal-gas ratio (2/(k+1))^(k/(k-1)) with k = 1.135 gives 0.577): there Napier
-applies; above it the nozzle is evaluated at the back pressure.
+    W = Cd * W_Napier(p1) * G(p1, T1, p2) / G*(p1, saturated) * K_high(p1)
+
+- back pressure: G(p2) / G* is 1 while the flow is choked and falls smoothly past the
+  nozzle's own critical pressure, so the flow is continuous and never falls as p1
+  rises or p2 falls (a fixed switch at p2/p1 = 0.58 between Napier and the nozzle made
+  a step of up to 4 %);
+- superheat: G*(p1, T1) / G*(p1, saturated) < 1, the part API 520's superheat factor
+  KSH tabulates;
+- above 1500 psia (10 342 kPa abs), where API 520 applies its correction KN, the ratio
+  (G*(p1)/p1) / (G*(1500 psia)/1500 psia) continues Napier without a step; a test
+  checks it against KN.
+
+A real orifice passes less than the ideal: both are multiplied by a discharge
+coefficient Cd (sharp-edged orifices 0.6-0.7; the US DOE table implies 0.73).
 """
 
 import math
@@ -35,7 +46,13 @@ INCH_M = 0.0254  # exact, NIST SP 811 appendix B.8
 PSI_PA = POUND_KG * 9.80665 / INCH_M**2  # lbf/in2 with standard gravity, exact
 # Napier's 1/70 lb/(s in2 psia), converted exactly to kg/(s m2 Pa).
 NAPIER_KG_PER_S_M2_PA = POUND_KG / (INCH_M**2 * PSI_PA) / 70.0
-CRITICAL_PRESSURE_RATIO_SATURATED = 0.58
+# Napier's equation holds up to 1500 psia (API 520 Part I, 5.7).
+NAPIER_LIMIT_KPA_ABS = 1500.0 * PSI_PA / 1000.0
+# Below this ratio steam from any inlet the program takes is choked: the critical
+# ratio of the equilibrium nozzle lies near 0.55 (superheated) to 0.58 (saturated), so
+# the nozzle need not be searched (a speed path; its answer is the same).
+SURELY_CHOKED_PRESSURE_RATIO = 0.5
+SATURATION_READING_K = 0.01  # a steam temperature this close to saturation is saturated
 MAXIMUM_ORIFICE_MM = 50.0
 SECONDS_PER_HOUR = 3600.0
 
@@ -46,8 +63,9 @@ class FlowRegime(StrEnum):
 
 
 class FlowMethod(StrEnum):
-    NAPIER = "napier"
-    ISENTROPIC_NOZZLE = "isentropic_nozzle"
+    NAPIER = "napier"  # choked dry saturated steam up to 1500 psia: Napier alone
+    # Napier times the IF97 nozzle's ratio for back pressure, superheat or high pressure
+    NAPIER_NOZZLE_CORRECTED = "napier_nozzle_corrected"
 
 
 @dataclass(frozen=True, slots=True)
@@ -157,36 +175,104 @@ def isentropic_nozzle_flux(inlet: WaterState, back_pressure_kpa_abs: float) -> N
     )
 
 
-def saturated_steam_discharge(
+def steam_discharge(
     orifice_diameter_mm: float,
     inlet_pressure_kpa_abs: float,
     return_pressure_kpa_abs: float,
     discharge_coefficient: float,
+    steam_temperature_c: float | None = None,
 ) -> SteamDischarge:
-    """Dry saturated steam through a trap's orifice [kg/h], with the regime and method.
+    """Live steam through a trap's orifice [kg/h], with the regime and method.
 
-    Choked (p2/p1 <= 0.58): Napier's equation. Subcritical: the isentropic nozzle
-    evaluated at the return pressure.
+    Dry saturated steam unless `steam_temperature_c` [degC] gives a superheated line.
+    Napier's equation, corrected by the isentropic nozzle's ratio where Napier alone
+    does not hold (module docstring). Valid 0 < D <= 50 mm, p2 < p1 <= 22 064 kPa abs.
 
-    >>> discharge = saturated_steam_discharge(5.0, 501.325, 401.325, 0.7)
+    >>> discharge = steam_discharge(5.0, 501.325, 401.325, 0.7)
     >>> discharge.regime.value, discharge.method.value, round(discharge.flow_kg_h, 1)
-    ('subcritical', 'isentropic_nozzle', 31.2)
+    ('subcritical', 'napier_nozzle_corrected', 30.9)
     """
     if return_pressure_kpa_abs >= inlet_pressure_kpa_abs:
         raise ValueError("the return pressure must be below the inlet pressure for steam to flow")
-    if return_pressure_kpa_abs / inlet_pressure_kpa_abs <= CRITICAL_PRESSURE_RATIO_SATURATED:
-        flow = napier_steam_flow_kg_h(
-            orifice_diameter_mm, inlet_pressure_kpa_abs, discharge_coefficient
+    napier = napier_steam_flow_kg_h(
+        orifice_diameter_mm, inlet_pressure_kpa_abs, discharge_coefficient
+    )
+    if (
+        steam_temperature_c is None
+        and inlet_pressure_kpa_abs <= NAPIER_LIMIT_KPA_ABS
+        and return_pressure_kpa_abs <= SURELY_CHOKED_PRESSURE_RATIO * inlet_pressure_kpa_abs
+    ):
+        return SteamDischarge(napier, FlowRegime.CHOKED, FlowMethod.NAPIER)
+    ratio, regime = nozzle_correction(
+        inlet_pressure_kpa_abs, return_pressure_kpa_abs, steam_temperature_c
+    )
+    exact = ratio == 1.0 and steam_temperature_c is None
+    method = FlowMethod.NAPIER if exact else FlowMethod.NAPIER_NOZZLE_CORRECTED
+    return SteamDischarge(napier * ratio, regime, method)
+
+
+def live_steam(
+    inlet_pressure_kpa_abs: float, steam_temperature_c: float | None
+) -> tuple[float, float]:
+    """Enthalpy [kJ/kg] and entropy [kJ/(kg K)] of the live steam at a trap [kPa abs].
+
+    Dry saturated steam where no temperature is given or it is within 0.01 K of
+    saturation; superheated steam from IF97 region 2 above it; below it, ValueError.
+
+    >>> [round(value, 1) for value in live_steam(1000.0, 250.0)]
+    [2943.2, 6.9]
+    """
+    saturation = steam_tables.saturation_at_pressure(inlet_pressure_kpa_abs)
+    if steam_temperature_c is None or (
+        0.0 <= steam_temperature_c - saturation.temperature_c <= SATURATION_READING_K
+    ):
+        return saturation.hg_kj_kg, saturation.sg_kj_kg_k
+    if steam_temperature_c < saturation.temperature_c:
+        raise ValueError(
+            f"steam at {steam_temperature_c:.6g} °C is below the saturation temperature "
+            f"{saturation.temperature_c:.2f} °C at the inlet pressure: live steam is at or "
+            "above saturation"
         )
-        return SteamDischarge(flow, FlowRegime.CHOKED, FlowMethod.NAPIER)
-    flux = _subcritical_saturated_flux(inlet_pressure_kpa_abs, return_pressure_kpa_abs)
-    flow = discharge_coefficient * flux * orifice_area_m2(orifice_diameter_mm) * SECONDS_PER_HOUR
-    return SteamDischarge(flow, FlowRegime.SUBCRITICAL, FlowMethod.ISENTROPIC_NOZZLE)
+    steam = steam_tables.properties_at_pressure_temperature(
+        inlet_pressure_kpa_abs, steam_temperature_c
+    )
+    return steam.enthalpy_kj_kg, steam.entropy_kj_kg_k
+
+
+def _saturated_choked_flux(inlet_pressure_kpa_abs: float) -> float:
+    return _choked_throat(inlet_pressure_kpa_abs, *live_steam(inlet_pressure_kpa_abs, None))[1]
 
 
 @lru_cache(maxsize=4096)
-def _subcritical_saturated_flux(
-    inlet_pressure_kpa_abs: float, return_pressure_kpa_abs: float
-) -> float:
-    saturation = steam_tables.saturation_at_pressure(inlet_pressure_kpa_abs)
-    return _throat_mass_flux(saturation.hg_kj_kg, saturation.sg_kj_kg_k, return_pressure_kpa_abs)
+def nozzle_correction(
+    inlet_pressure_kpa_abs: float,
+    return_pressure_kpa_abs: float,
+    steam_temperature_c: float | None = None,
+) -> tuple[float, FlowRegime]:
+    """The factor [-] by which the isentropic nozzle corrects Napier, and the regime.
+
+    G(p1, T1, p2) / G*(p1, saturated), times (G*(p1)/p1) / (G*(1500 psia)/1500 psia)
+    above 1500 psia. 1.0 for choked dry saturated steam up to 1500 psia.
+
+    >>> factor, regime = nozzle_correction(1000.0, 900.0)
+    >>> round(factor, 3), regime.value
+    (0.655, 'subcritical')
+    """
+    enthalpy, entropy = live_steam(inlet_pressure_kpa_abs, steam_temperature_c)
+    throat_pressure, choked_flux = _choked_throat(inlet_pressure_kpa_abs, enthalpy, entropy)
+    regime = FlowRegime.CHOKED
+    flux = choked_flux
+    if return_pressure_kpa_abs > throat_pressure:
+        regime = FlowRegime.SUBCRITICAL
+        flux = _throat_mass_flux(enthalpy, entropy, return_pressure_kpa_abs)
+    saturated_flux = (
+        choked_flux
+        if steam_temperature_c is None
+        else _saturated_choked_flux(inlet_pressure_kpa_abs)
+    )
+    factor = flux / saturated_flux
+    if inlet_pressure_kpa_abs > NAPIER_LIMIT_KPA_ABS:
+        factor *= (_saturated_choked_flux(inlet_pressure_kpa_abs) / inlet_pressure_kpa_abs) / (
+            _saturated_choked_flux(NAPIER_LIMIT_KPA_ABS) / NAPIER_LIMIT_KPA_ABS
+        )
+    return factor, regime

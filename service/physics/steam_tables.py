@@ -3,7 +3,7 @@
 No other module imports `iapws`. This one converts the project's declared units to the
 library's (MPa, K, kJ/kg) and back, turns the library's out-of-range errors into a
 `ValueError` with a sentence a technician can read, and caches the lookups a survey
-repeats thousands of times at the same few pressure levels (shared/DOMAIN.md).
+repeats thousands of times at the same few pressure levels.
 
 Units here and in every caller: pressure kPa absolute, temperature degC, specific
 enthalpy kJ/kg, specific entropy kJ/(kg K), specific volume m3/kg.

@@ -1,23 +1,38 @@
-"""One trap's losses: live steam through its orifice, and its condensate where it goes.
+"""One trap's losses, in the two kinds a manager signs apart.
 
-Live steam lost = orifice capacity (Napier or the isentropic nozzle, at Cd) times the
-loss factor of the trap's condition. Its low and high ends come from the ends of the
-Cd range and of the loss factor's range, so every figure carries its uncertainty.
+Failure loss (a repair removes it): live steam = orifice capacity (Napier, corrected by
+the IF97 nozzle where Napier alone does not hold, at Cd) times the loss factor of the
+trap's condition; a working trap passes none. Its low and high ends come from the ends
+of the Cd range and of the loss factor's range. Live steam into a closed return is
+priced on the heat the return does not bring back (`annual.ClosedReturnPricing`).
 
-Condensate (the load the trap drains, if known):
+Installation loss (a project removes it, not a repair), from the condensate load the
+trap drains, if known, whatever its condition as long as it discharges:
 
 - closed return: flash and condensate are recovered, nothing is lost;
 - vented receiver: the flash fraction boils off to atmosphere and is lost;
-- drain: all of it is lost, water, heat and treatment.
+- drain: all of it is lost, water, heat, treatment, and any sewer charge.
 
-Source: shared/DOMAIN.md "Steam through a failed-open trap" and "Flash steam".
+Condensate leaves at the inlet pressure, saturated unless a temperature below
+saturation is given (thermostatic traps hold it back until it cools); its flash is the
+mixing rule solved for x at the return pressure.
+
+Sources: Napier (1866) and API 520 Part I (2014) 5.7 for the orifice; IAPWS R7-97(2012)
+for every property; US DOE Steam Tip Sheet "Flash High-Pressure Condensate to
+Regenerate Low-Pressure Steam" for the flash balance.
 """
 
 from dataclasses import dataclass
 from enum import StrEnum
 
 from service.physics import steam_tables
-from service.physics.annual import Economics, YearlyLoss, no_yearly_loss, yearly_loss
+from service.physics.annual import (
+    ClosedReturnPricing,
+    Economics,
+    YearlyLoss,
+    no_yearly_loss,
+    yearly_loss,
+)
 from service.physics.conditions import (
     DEFAULT_LOSS_FACTORS,
     RISK_NOTES,
@@ -26,7 +41,7 @@ from service.physics.conditions import (
     wastes_live_steam,
 )
 from service.physics.flash import flash_of_condensate
-from service.physics.orifice import FlowMethod, FlowRegime, saturated_steam_discharge
+from service.physics.orifice import FlowMethod, FlowRegime, live_steam, steam_discharge
 from service.physics.spread import Spread
 
 # Cd of a trap orifice. 0.7 lies between the sharp-edged orifice's 0.6 (one published
@@ -39,6 +54,31 @@ class CondensateDestination(StrEnum):
     CLOSED_RETURN = "closed_return"
     VENTED_RECEIVER = "vented_receiver"
     DRAIN = "drain"
+
+
+# A vented receiver is open to atmosphere: its vent's back pressure is a few kPa at most
+# (common practice). A higher gauge pressure describes a closed, pressurised return.
+VENTED_RECEIVER_MAX_KPA_G = 5.0
+
+
+def require_destination_fits_return(
+    destination: CondensateDestination, return_pressure_kpa_g: float
+) -> None:
+    """Raise ValueError where a vented receiver is given a pressure above atmosphere.
+
+    >>> require_destination_fits_return(CondensateDestination.VENTED_RECEIVER, 60.0)
+    Traceback (most recent call last):
+    ...
+    ValueError: a vented receiver is open to atmosphere (0 kPa(g)); 60 kPa(g) is a closed return
+    """
+    if (
+        destination is CondensateDestination.VENTED_RECEIVER
+        and return_pressure_kpa_g > VENTED_RECEIVER_MAX_KPA_G
+    ):
+        raise ValueError(
+            f"a vented receiver is open to atmosphere (0 kPa(g)); "
+            f"{return_pressure_kpa_g:g} kPa(g) is a closed return"
+        )
 
 
 @dataclass(frozen=True, slots=True)
@@ -54,6 +94,8 @@ class TrapService:
     destination: CondensateDestination = CondensateDestination.CLOSED_RETURN
     discharge_coefficient: Spread = DEFAULT_DISCHARGE_COEFFICIENT
     loss_factor: Spread | None = None  # None: the condition's default
+    steam_temperature_c: float | None = None  # a superheated line's; None: saturated
+    condensate_temperature_c: float | None = None  # below saturation; None: saturated
 
 
 @dataclass(frozen=True, slots=True)
@@ -87,9 +129,19 @@ class TrapLoss:
     live_steam_high: YearlyLoss
     condensate: CondensateLoss
     risk: str | None  # why a plugged or flooded trap matters, else None
-    total: YearlyLoss  # live steam and condensate together
+    total: YearlyLoss  # failure and installation losses together: never shown alone
     total_low: YearlyLoss
     total_high: YearlyLoss
+
+    @property
+    def failure(self) -> YearlyLoss:
+        """The loss a repair of the trap removes: its live steam."""
+        return self.live_steam
+
+    @property
+    def installation(self) -> YearlyLoss:
+        """The loss that follows from where the trap discharges: flash vented, drained."""
+        return self.condensate.total
 
 
 def loss_factor_for(
@@ -120,15 +172,16 @@ def trap_loss(service: TrapService, economics: Economics) -> TrapLoss:
     Pressures in kPa abs; the return must be below the inlet wherever the trap
     discharges (every condition but plugged and out of service).
 
-    >>> loss = trap_loss(TrapService(1101.325, 101.325, 3.0, TrapCondition.BLOW_THROUGH, 8000),
-    ...     Economics(steam_cost_per_tonne=30.0))
+    >>> vented = CondensateDestination.VENTED_RECEIVER
+    >>> loss = trap_loss(TrapService(1101.325, 101.325, 3.0, TrapCondition.BLOW_THROUGH, 8000,
+    ...     destination=vented), Economics(steam_cost_per_tonne=30.0))
     >>> round(loss.steam_loss_kg_h.typical, 1), loss.method.value, round(loss.live_steam.cost)
     (28.6, 'napier', 6859)
     """
     condition = service.condition
     loss_factor = service.loss_factor or DEFAULT_LOSS_FACTORS[condition]
     inlet = steam_tables.saturation_at_pressure(service.inlet_pressure_kpa_abs)
-    steam_tables.require_saturation_pressure(service.return_pressure_kpa_abs)
+    outlet = steam_tables.saturation_at_pressure(service.return_pressure_kpa_abs)
     can_flow = service.return_pressure_kpa_abs < service.inlet_pressure_kpa_abs
     if discharges_condensate(condition) and not can_flow:
         raise ValueError(
@@ -139,23 +192,30 @@ def trap_loss(service: TrapService, economics: Economics) -> TrapLoss:
     capacity = Spread.exact(0.0)
     if can_flow:
         # Flow is proportional to Cd, so one evaluation at Cd = 1 serves the whole range.
-        fully_open = saturated_steam_discharge(
+        fully_open = steam_discharge(
             service.orifice_diameter_mm,
             service.inlet_pressure_kpa_abs,
             service.return_pressure_kpa_abs,
             discharge_coefficient=1.0,
+            steam_temperature_c=service.steam_temperature_c,
         )
         regime, method = fully_open.regime, fully_open.method
         capacity = Spread.exact(fully_open.flow_kg_h).scaled(service.discharge_coefficient)
     steam_loss = capacity.scaled(loss_factor)
 
+    steam_enthalpy = live_steam_enthalpy_kj_kg(service)
+    returned = (
+        service.destination is CondensateDestination.CLOSED_RETURN
+        and economics.closed_return_pricing is ClosedReturnPricing.HEAT_NOT_RECOVERED
+    )
     # Every yearly figure is proportional to the mass lost: price one kg/h, then scale.
     per_kg_h = yearly_loss(
         mass_kg_h=1.0,
-        lost_enthalpy_kj_kg=inlet.hg_kj_kg,
+        lost_enthalpy_kj_kg=steam_enthalpy,
         steam_enthalpy_kj_kg=inlet.hg_kj_kg,
         hours_per_year=service.hours_per_year,
         economics=economics,
+        replaced_from_kj_kg=outlet.hf_kj_kg if returned else None,
     )
     live_steam = per_kg_h.scaled(steam_loss.typical)
     live_steam_low = per_kg_h.scaled(steam_loss.low)
@@ -179,12 +239,23 @@ def trap_loss(service: TrapService, economics: Economics) -> TrapLoss:
     )
 
 
+def live_steam_enthalpy_kj_kg(service: TrapService) -> float:
+    """Enthalpy [kJ/kg] of the live steam at the trap: hg(p1), or h(p1, T) superheated.
+
+    >>> round(live_steam_enthalpy_kj_kg(TrapService(1000.0, 101.325, 3.0,
+    ...     TrapCondition.LEAKING, 8760, steam_temperature_c=250.0)), 1)
+    2943.2
+    """
+    return live_steam(service.inlet_pressure_kpa_abs, service.steam_temperature_c)[0]
+
+
 def condensate_loss(service: TrapService, economics: Economics) -> CondensateLoss:
     """A year of what the trap's condensate load loses at its destination.
 
     Flash vented carries hg at the return pressure; condensate drained carries its
-    inlet enthalpy; both are replaced by makeup water. Nothing is lost to a closed
-    return, or where the trap passes no condensate or its load is unknown (zero).
+    inlet enthalpy and the site's sewer charge; both are replaced by makeup water.
+    Nothing is lost to a closed return, or where the trap passes no condensate or its
+    load is unknown (zero).
     """
     nothing = no_yearly_loss(economics)
     discharging = (
@@ -194,7 +265,11 @@ def condensate_loss(service: TrapService, economics: Economics) -> CondensateLos
     )
     if not discharging:
         return CondensateLoss(0.0, 0.0, nothing, 0.0, nothing)
-    flash = flash_of_condensate(service.inlet_pressure_kpa_abs, service.return_pressure_kpa_abs)
+    flash = flash_of_condensate(
+        service.inlet_pressure_kpa_abs,
+        service.return_pressure_kpa_abs,
+        service.condensate_temperature_c,
+    )
     steam_enthalpy = steam_tables.saturation_at_pressure(service.inlet_pressure_kpa_abs).hg_kj_kg
 
     def lost(mass_kg_h: float, enthalpy_kj_kg: float) -> YearlyLoss:
@@ -213,11 +288,12 @@ def condensate_loss(service: TrapService, economics: Economics) -> CondensateLos
         )
     if service.destination is CondensateDestination.DRAIN:
         drain_kg_h = service.condensate_load_kg_h
+        drained = lost(drain_kg_h, flash.inlet_enthalpy_kj_kg)
         return CondensateLoss(
             flash.flash_fraction,
             0.0,
             nothing,
             drain_kg_h,
-            lost(drain_kg_h, flash.inlet_enthalpy_kj_kg),
+            drained.plus_cost(drained.mass_t * economics.sewer_cost_per_tonne),
         )
     return CondensateLoss(flash.flash_fraction, 0.0, nothing, 0.0, nothing)

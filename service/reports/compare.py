@@ -1,4 +1,12 @@
-"""How a site changed from one survey to the next: trap by trap, and in yearly cost."""
+"""How a site changed from one survey to the next: trap by trap, and in yearly cost.
+
+A comparison is fair only over traps tested in operation in both rounds: a trap not
+reached in one of them says nothing about the change, so it is left out and counted.
+The change in failure losses is summed over those traps, and its range holds the
+site's assumptions (Cd, loss factors, prices) fixed on both sides: the low estimate of
+one round goes with the low of the other, since they are the same unknowns. A risk
+(plugged, flooded) that was repaired is a risk removed, never a cost or a saving.
+"""
 
 import datetime as dt
 from collections import defaultdict
@@ -8,10 +16,17 @@ from enum import StrEnum
 from sqlalchemy import select
 from sqlalchemy.orm import Session
 
-from service.physics.conditions import TrapCondition
+from service.physics.conditions import FindingCategory, TrapCondition
+from service.physics.spread import Spread
 from service.reports.pricing import SitePricing
 from service.reports.summary import PricedTrap, SiteSummary, site_summary
 from service.store.models import Repair, Site, Survey, Trap
+
+# Findings that say a trap was tested in operation, in either round.
+_TESTED = frozenset({FindingCategory.FAILURE, FindingCategory.RISK, FindingCategory.WORKING})
+
+
+NOTHING = Spread.exact(0.0)
 
 
 class Change(StrEnum):
@@ -20,6 +35,9 @@ class Change(StrEnum):
     RECOVERED_WITHOUT_REPAIR = "recovered_without_repair"
     STILL_FAILED = "still_failed"
     NOT_RETESTED = "not_retested"
+    NEW_RISK = "new_risk"
+    RISK_REMOVED = "risk_removed"
+    STILL_A_RISK = "still_a_risk"
 
 
 @dataclass(frozen=True, slots=True)
@@ -31,7 +49,7 @@ class TrapChange:
     condition_before: TrapCondition | None
     condition_after: TrapCondition | None
     repaired_on: dt.date | None
-    yearly_cost_before: float
+    yearly_cost_before: float  # failure loss
     yearly_cost_after: float
 
 
@@ -40,23 +58,32 @@ class SurveyComparison:
     before: SiteSummary
     after: SiteSummary
     changes: dict[Change, list[TrapChange]] = field(default_factory=dict)
+    traps_compared: int = 0  # tested in operation in both rounds
+    traps_only_before: int = 0  # tested in operation in the earlier round only
+    traps_only_after: int = 0
+    failure_cost_before: Spread = NOTHING  # over the traps compared
+    failure_cost_after: Spread = NOTHING
+    installation_cost_before: float = 0.0  # over the traps compared
+    installation_cost_after: float = 0.0
 
     @property
     def cost_change(self) -> float:
-        """Yearly cost of the later survey less that of the earlier (negative: saved)."""
-        return (self.after.totals.total.cost or 0.0) - (self.before.totals.total.cost or 0.0)
+        """Yearly failure loss of the later survey less the earlier's, over the traps
+        compared (negative: saved)."""
+        return self.failure_cost_after.typical - self.failure_cost_before.typical
 
     @property
-    def cost_change_low(self) -> float:
-        return (self.after.totals.total_low.cost or 0.0) - (
-            self.before.totals.total_high.cost or 0.0
-        )
+    def cost_change_range(self) -> tuple[float, float]:
+        """The change with the assumptions held fixed on both sides: (lowest, highest) of
+        low-with-low and high-with-high, widened to hold the typical change."""
+        low_with_low = self.failure_cost_after.low - self.failure_cost_before.low
+        high_with_high = self.failure_cost_after.high - self.failure_cost_before.high
+        ends = (low_with_low, high_with_high, self.cost_change)
+        return min(ends), max(ends)
 
     @property
-    def cost_change_high(self) -> float:
-        return (self.after.totals.total_high.cost or 0.0) - (
-            self.before.totals.total_low.cost or 0.0
-        )
+    def traps_left_out(self) -> int:
+        return self.traps_only_before + self.traps_only_after
 
 
 def _repair_dates(session: Session, site: Site) -> dict[int, list[dt.date]]:
@@ -71,19 +98,30 @@ def _repair_dates(session: Session, site: Site) -> dict[int, list[dt.date]]:
     return dates
 
 
+def _category(priced: PricedTrap | None) -> FindingCategory | None:
+    return None if priced is None else priced.category
+
+
 def _change(before: PricedTrap | None, after: PricedTrap | None) -> Change | None:
-    failed_before = before is not None and before.failed
-    failed_after = after is not None and after.failed
-    if failed_after:
-        return Change.STILL_FAILED if failed_before else Change.NEWLY_FAILED
-    if not failed_before:
+    was, now = _category(before), _category(after)
+    failure, risk = FindingCategory.FAILURE, FindingCategory.RISK
+    if now is failure:
+        return Change.STILL_FAILED if was is failure else Change.NEWLY_FAILED
+    if now is risk:
+        return Change.STILL_A_RISK if was is risk else Change.NEW_RISK
+    if was not in (failure, risk):
         return None
-    if after is None or after.condition in {
-        TrapCondition.NOT_ACCESSIBLE,
-        TrapCondition.OUT_OF_SERVICE,
-    }:
+    if now is not FindingCategory.WORKING:
         return Change.NOT_RETESTED
-    return Change.RECOVERED_WITHOUT_REPAIR
+    return Change.RECOVERED_WITHOUT_REPAIR if was is failure else Change.RISK_REMOVED
+
+
+def _sum_spread(traps: list[PricedTrap]) -> Spread:
+    return Spread(
+        sum(priced.loss.failure.cost or 0.0 for priced in traps),
+        sum(priced.loss.live_steam_low.cost or 0.0 for priced in traps),
+        sum(priced.loss.live_steam_high.cost or 0.0 for priced in traps),
+    )
 
 
 def compare_surveys(
@@ -97,8 +135,9 @@ def compare_surveys(
     pricing: SitePricing | None = None,
 ) -> SurveyComparison:
     """Trap by trap from `before` to `after`: newly failed, repaired and confirmed by a
-    working finding, working again with no repair on record, still failed, or failed
-    and not tested since. A caller that has either summary already passes it."""
+    working finding, working again with no repair on record, still failed, failed and
+    not tested since; risks new, removed or remaining. Costs over traps tested in both.
+    A caller that has either summary already passes it."""
     pricing = pricing or SitePricing.of(site)
     comparison = SurveyComparison(
         before=before_summary
@@ -108,6 +147,20 @@ def compare_surveys(
     )
     earlier = {priced.trap_id: priced for priced in comparison.before.priced}
     later = {priced.trap_id: priced for priced in comparison.after.priced}
+    tested_before = {key for key, priced in earlier.items() if priced.category in _TESTED}
+    tested_after = {key for key, priced in later.items() if priced.category in _TESTED}
+    both = tested_before & tested_after
+    comparison.traps_compared = len(both)
+    comparison.traps_only_before = len(tested_before - tested_after)
+    comparison.traps_only_after = len(tested_after - tested_before)
+    comparison.failure_cost_before = _sum_spread([earlier[key] for key in both])
+    comparison.failure_cost_after = _sum_spread([later[key] for key in both])
+    comparison.installation_cost_before = sum(
+        earlier[key].loss.installation.cost or 0.0 for key in both
+    )
+    comparison.installation_cost_after = sum(
+        later[key].loss.installation.cost or 0.0 for key in both
+    )
     repairs = _repair_dates(session, site)
     for trap_id in sorted(earlier.keys() | later.keys()):
         was, now = earlier.get(trap_id), later.get(trap_id)

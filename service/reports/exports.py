@@ -20,10 +20,10 @@ REPAIR_LIST_COLUMNS = (
     "steam_loss_kg_h",
     "steam_loss_kg_h_low",
     "steam_loss_kg_h_high",
-    "annual_total_cost",
-    "annual_total_cost_low",
-    "annual_total_cost_high",
-    "annual_total_co2_t",
+    "annual_cost",
+    "annual_cost_low",
+    "annual_cost_high",
+    "annual_co2_t",
     "repair_kind",
     "repair_cost",
     "payback_years",
@@ -34,7 +34,8 @@ REPAIR_LIST_COLUMNS = (
 
 
 def repair_list_table(summary: SummaryOut) -> tuple[list[str], list[list[object]]]:
-    """The failed traps that cost money, costliest first, with rank and currency."""
+    """The failed traps whose failure losses cost money, quickest payback first (the
+    order of the screen and the report), with rank and currency."""
     header = ["rank", *REPAIR_LIST_COLUMNS, "currency"]
     rows = [
         [

@@ -7,6 +7,7 @@ trap in a summary and the same trap priced by hand give the same figures.
 from dataclasses import dataclass, field
 from typing import Protocol
 
+from service.physics import steam_tables
 from service.physics.annual import Economics
 from service.physics.conditions import TrapCondition, wastes_live_steam
 from service.physics.pressure import absolute_from_gauge
@@ -19,7 +20,9 @@ from service.physics.trap_loss import (
     trap_loss,
 )
 from service.store.models import Site
-from service.store.vocabulary import CostBasis
+from service.store.vocabulary import DISCHARGE_SUBCOOLING_K, CostBasis, TrapType
+
+LOWEST_CONDENSATE_TEMPERATURE_C = 0.01  # the triple point: a colder reading is a frozen line
 
 
 class Installation(Protocol):
@@ -37,6 +40,33 @@ class Installation(Protocol):
     def condensate_load_kg_h(self) -> float | None: ...
     @property
     def hours_per_year(self) -> float | None: ...
+    @property
+    def trap_type(self) -> TrapType: ...
+    @property
+    def steam_temperature_c(self) -> float | None: ...
+
+
+def condensate_temperature_c(
+    trap_type: TrapType | None, inlet_pressure_kpa_abs: float, upstream_temperature_c: float | None
+) -> float | None:
+    """The temperature [degC] condensate leaves the trap at; None where saturated.
+
+    A temperature measured before the trap is the best evidence (a reading at or above
+    saturation means saturated condensate); else a thermostatic trap's usual
+    subcooling below saturation (common practice), else saturation.
+
+    >>> round(condensate_temperature_c(TrapType.THERMOSTATIC_BIMETALLIC, 1101.325, None), 2)
+    154.12
+    >>> condensate_temperature_c(TrapType.THERMODYNAMIC, 1101.325, 190.0) is None
+    True
+    """
+    saturation_c = steam_tables.saturation_at_pressure(inlet_pressure_kpa_abs).temperature_c
+    if upstream_temperature_c is not None:
+        if upstream_temperature_c >= saturation_c:
+            return None
+        return max(upstream_temperature_c, LOWEST_CONDENSATE_TEMPERATURE_C)
+    subcooling_k = None if trap_type is None else DISCHARGE_SUBCOOLING_K.get(trap_type)
+    return None if subcooling_k is None else saturation_c - subcooling_k
 
 
 def economics_of(site: Site) -> Economics:
@@ -49,6 +79,11 @@ def economics_of(site: Site) -> Economics:
         boiler_efficiency=site.boiler_efficiency,
         makeup_water_temperature_c=site.makeup_water_temperature_c,
         co2_kg_per_gj_fuel=site.co2_kg_per_gj_fuel,
+        fuel_heating_value=site.fuel_heating_value,
+        co2_factor_heating_value=site.co2_factor_heating_value,
+        net_to_gross_ratio=site.net_to_gross_ratio,
+        sewer_cost_per_tonne=site.sewer_cost_per_tonne,
+        closed_return_pricing=site.closed_return_pricing,
     )
 
 
@@ -107,12 +142,14 @@ class SitePricing:
         *,
         condition: TrapCondition,
         loss_factor_override: float | None,
+        upstream_temperature_c: float | None = None,
     ) -> TrapService:
         """What the loss calculation needs of one trap as found, at this site."""
         atmosphere = self.atmospheric_pressure_kpa
         hours = trap.hours_per_year
+        inlet_pressure_kpa_abs = absolute_from_gauge(trap.inlet_pressure_kpa_g, atmosphere)
         return TrapService(
-            inlet_pressure_kpa_abs=absolute_from_gauge(trap.inlet_pressure_kpa_g, atmosphere),
+            inlet_pressure_kpa_abs=inlet_pressure_kpa_abs,
             return_pressure_kpa_abs=absolute_from_gauge(trap.return_pressure_kpa_g, atmosphere),
             orifice_diameter_mm=trap.orifice_diameter_mm,
             condition=condition,
@@ -121,4 +158,8 @@ class SitePricing:
             destination=trap.condensate_destination,
             discharge_coefficient=self.discharge_coefficient,
             loss_factor=self.loss_factor(condition, loss_factor_override),
+            steam_temperature_c=trap.steam_temperature_c,
+            condensate_temperature_c=condensate_temperature_c(
+                trap.trap_type, inlet_pressure_kpa_abs, upstream_temperature_c
+            ),
         )

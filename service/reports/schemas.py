@@ -5,10 +5,12 @@ API can never disagree about a number.
 """
 
 import datetime as dt
+from typing import Any
 
 from pydantic import BaseModel, Field
 
-from service.physics.conditions import TrapCondition
+from service.physics.annual import YearlyLoss
+from service.physics.conditions import FindingCategory, TrapCondition
 from service.physics.trap_loss import CondensateDestination
 from service.reports.compare import Change, SurveyComparison, TrapChange
 from service.reports.summary import PricedTrap, SiteSummary, Tally
@@ -17,10 +19,19 @@ from service.store.vocabulary import Application, RecommendedAction, RepairKind,
 
 
 class TallyOut(BaseModel):
-    """Yearly figures of a group of traps; unsuffixed typical, `_low` and `_high` its range."""
+    """Yearly figures of a group of traps, in the two kinds a manager signs apart.
+
+    `annual_*` without a kind are failure losses (live steam of failed traps: what
+    repairs remove), unsuffixed typical, `_low` and `_high` their range. `annual_flash_*`,
+    `annual_drain_*` and `annual_installation_*` are installation losses (flash vented,
+    condensate drained: what projects remove). Never add the two without showing both.
+    """
 
     traps: int
-    failed: int
+    failed: int = Field(description="Needing repair: failures and risks")
+    failures: int = Field(description="Wasting live steam: leaking, blowing through, cycling")
+    risks: int = Field(description="Plugged or flooded")
+    unknown: int = Field(description="Not accessible")
     annual_steam_loss_t: float
     annual_steam_loss_t_low: float
     annual_steam_loss_t_high: float
@@ -38,42 +49,47 @@ class TallyOut(BaseModel):
     annual_flash_cost: float | None
     annual_condensate_to_drain_t: float
     annual_drain_cost: float | None
-    annual_total_cost: float | None
-    annual_total_cost_low: float | None
-    annual_total_cost_high: float | None
-    annual_total_co2_t: float
-    annual_total_co2_t_low: float
-    annual_total_co2_t_high: float
+    annual_installation_energy_gj: float
+    annual_installation_cost: float | None
+    annual_installation_co2_t: float
 
     @classmethod
     def of(cls, tally: Tally) -> "TallyOut":
+        installation = tally.installation
         return cls(
             traps=tally.traps,
             failed=tally.failed,
-            annual_steam_loss_t=tally.live_steam.mass_t,
-            annual_steam_loss_t_low=tally.live_steam_low.mass_t,
-            annual_steam_loss_t_high=tally.live_steam_high.mass_t,
-            annual_energy_loss_gj=tally.live_steam.energy_gj,
-            annual_energy_loss_gj_low=tally.live_steam_low.energy_gj,
-            annual_energy_loss_gj_high=tally.live_steam_high.energy_gj,
-            annual_fuel_gj=tally.live_steam.fuel_gj,
-            annual_cost=tally.live_steam.cost,
-            annual_cost_low=tally.live_steam_low.cost,
-            annual_cost_high=tally.live_steam_high.cost,
-            annual_co2_t=tally.live_steam.co2_t,
-            annual_co2_t_low=tally.live_steam_low.co2_t,
-            annual_co2_t_high=tally.live_steam_high.co2_t,
+            failures=tally.failures,
+            risks=tally.risks,
+            unknown=tally.unknown,
+            **ranged_fields(tally.failure, tally.failure_low, tally.failure_high),
+            annual_fuel_gj=tally.failure.fuel_gj,
             annual_flash_vented_t=tally.flash_vented.mass_t,
             annual_flash_cost=tally.flash_vented.cost,
             annual_condensate_to_drain_t=tally.condensate_to_drain.mass_t,
             annual_drain_cost=tally.condensate_to_drain.cost,
-            annual_total_cost=tally.total.cost,
-            annual_total_cost_low=tally.total_low.cost,
-            annual_total_cost_high=tally.total_high.cost,
-            annual_total_co2_t=tally.total.co2_t,
-            annual_total_co2_t_low=tally.total_low.co2_t,
-            annual_total_co2_t_high=tally.total_high.co2_t,
+            annual_installation_energy_gj=installation.energy_gj,
+            annual_installation_cost=installation.cost,
+            annual_installation_co2_t=installation.co2_t,
         )
+
+
+RANGED_FIGURES = {
+    "annual_steam_loss_t": "mass_t",
+    "annual_energy_loss_gj": "energy_gj",
+    "annual_cost": "cost",
+    "annual_co2_t": "co2_t",
+}
+
+
+def ranged_fields(typical: YearlyLoss, low: YearlyLoss, high: YearlyLoss) -> dict[str, Any]:
+    """A yearly loss and its range as `name`, `name_low` and `name_high` fields."""
+    fields: dict[str, Any] = {}
+    for name, figure in RANGED_FIGURES.items():
+        fields[name] = getattr(typical, figure)
+        fields[f"{name}_low"] = getattr(low, figure)
+        fields[f"{name}_high"] = getattr(high, figure)
+    return fields
 
 
 class GroupOut(TallyOut):
@@ -101,6 +117,7 @@ class PricedTrapOut(BaseModel):
     finding_id: int
     tested_at: dt.datetime
     condition: TrapCondition
+    category: FindingCategory
     recommended_action: RecommendedAction
     inlet_pressure_kpa_abs: float
     return_pressure_kpa_abs: float
@@ -117,18 +134,33 @@ class PricedTrapOut(BaseModel):
     steam_loss_kg_h: float
     steam_loss_kg_h_low: float
     steam_loss_kg_h_high: float
-    annual_steam_loss_t: float
+    steam_temperature_c: float | None = Field(description="A superheated line's; else null")
+    condensate_temperature_c: float | None = Field(
+        description="Condensate leaving the trap below saturation; null: saturated"
+    )
+    annual_steam_loss_t: float = Field(description="Failure loss: what a repair removes")
+    annual_steam_loss_t_low: float
+    annual_steam_loss_t_high: float
+    annual_energy_loss_gj: float
+    annual_energy_loss_gj_low: float
+    annual_energy_loss_gj_high: float
     annual_cost: float | None
+    annual_cost_low: float | None
+    annual_cost_high: float | None
     annual_co2_t: float
-    annual_total_cost: float | None
-    annual_total_cost_low: float | None
-    annual_total_cost_high: float | None
-    annual_total_co2_t: float
+    annual_co2_t_low: float
+    annual_co2_t_high: float
+    annual_installation_cost: float | None = Field(
+        description="Flash vented and condensate drained: not removed by a repair"
+    )
+    annual_installation_co2_t: float
     repair_kind: RepairKind
     repair_cost: float | None
-    payback_years: float | None = Field(description="Repair cost over the typical yearly cost")
-    payback_years_low: float | None = Field(description="Over the high yearly cost")
-    payback_years_high: float | None = Field(description="Over the low yearly cost")
+    payback_years: float | None = Field(
+        description="Repair cost over the typical yearly failure loss"
+    )
+    payback_years_low: float | None = Field(description="Over the high yearly failure loss")
+    payback_years_high: float | None = Field(description="Over the low yearly failure loss")
     repaired_on: dt.date | None = Field(
         description="A repair since this finding, awaiting the test that confirms it"
     )
@@ -148,6 +180,7 @@ class PricedTrapOut(BaseModel):
             finding_id=priced.finding_id,
             tested_at=priced.tested_at,
             condition=priced.condition,
+            category=priced.category,
             recommended_action=priced.recommended_action,
             inlet_pressure_kpa_abs=service.inlet_pressure_kpa_abs,
             return_pressure_kpa_abs=service.return_pressure_kpa_abs,
@@ -164,18 +197,16 @@ class PricedTrapOut(BaseModel):
             steam_loss_kg_h=loss.steam_loss_kg_h.typical,
             steam_loss_kg_h_low=loss.steam_loss_kg_h.low,
             steam_loss_kg_h_high=loss.steam_loss_kg_h.high,
-            annual_steam_loss_t=loss.live_steam.mass_t,
-            annual_cost=loss.live_steam.cost,
-            annual_co2_t=loss.live_steam.co2_t,
-            annual_total_cost=loss.total.cost,
-            annual_total_cost_low=loss.total_low.cost,
-            annual_total_cost_high=loss.total_high.cost,
-            annual_total_co2_t=loss.total.co2_t,
+            steam_temperature_c=service.steam_temperature_c,
+            condensate_temperature_c=service.condensate_temperature_c,
+            **ranged_fields(loss.live_steam, loss.live_steam_low, loss.live_steam_high),
+            annual_installation_cost=loss.installation.cost,
+            annual_installation_co2_t=loss.installation.co2_t,
             repair_kind=priced.repair_kind,
             repair_cost=priced.repair_cost,
-            payback_years=priced.payback_years(loss.total.cost),
-            payback_years_low=priced.payback_years(loss.total_high.cost),
-            payback_years_high=priced.payback_years(loss.total_low.cost),
+            payback_years=priced.payback,
+            payback_years_low=priced.payback_years(loss.live_steam_high.cost),
+            payback_years_high=priced.payback_years(loss.live_steam_low.cost),
             repaired_on=priced.repaired_on,
             risk=loss.risk,
         )
@@ -195,7 +226,14 @@ class SurveyRef(BaseModel):
 
 
 class SummaryOut(BaseModel):
-    """A site's survey priced and rolled up. Totals are live steam unless named `total`."""
+    """A site's survey priced and rolled up in the accounting a manager signs.
+
+    The headline `annual_*` figures are failure losses (what repairs remove), with
+    their range. `totals` holds them beside the installation losses (flash vented and
+    condensate drained: what projects remove), by destination in `by_destination`.
+    Risks (plugged, flooded) and unknowns (not accessible, untested) are counted and
+    listed, not priced.
+    """
 
     site_id: int
     site_name: str
@@ -206,7 +244,8 @@ class SummaryOut(BaseModel):
     traps_untested: int
     traps_not_accessible: int
     traps_out_of_service: int
-    failed_count: int
+    failed_count: int = Field(description="Needing repair: failures and risks")
+    failure_count: int = Field(description="Wasting live steam")
     failure_rate: float | None
     annual_steam_loss_t: float
     annual_steam_loss_t_low: float
@@ -220,13 +259,17 @@ class SummaryOut(BaseModel):
     annual_co2_t: float
     annual_co2_t_low: float
     annual_co2_t_high: float
-    totals: TallyOut
+    totals: TallyOut = Field(description="Failure and installation losses of every trap tested")
     by_condition: list[GroupOut]
     by_area: list[GroupOut]
     by_application: list[GroupOut]
+    by_destination: list[GroupOut]
     risk_count: int
+    unknown_count: int = Field(description="Not accessible, and not tested in this survey")
     risks: list[PricedTrapOut]
-    repair_list: list[PricedTrapOut]
+    repair_list: list[PricedTrapOut] = Field(
+        description="By payback on failure losses, quickest first; the CSV's rank"
+    )
 
     @classmethod
     def of(cls, summary: SiteSummary) -> "SummaryOut":
@@ -243,26 +286,22 @@ class SummaryOut(BaseModel):
             traps_not_accessible=summary.traps_not_accessible,
             traps_out_of_service=summary.traps_out_of_service,
             failed_count=summary.failed_count,
+            failure_count=summary.totals.failures,
             failure_rate=summary.failure_rate,
-            annual_steam_loss_t=totals.annual_steam_loss_t,
-            annual_steam_loss_t_low=totals.annual_steam_loss_t_low,
-            annual_steam_loss_t_high=totals.annual_steam_loss_t_high,
-            annual_energy_loss_gj=totals.annual_energy_loss_gj,
-            annual_energy_loss_gj_low=totals.annual_energy_loss_gj_low,
-            annual_energy_loss_gj_high=totals.annual_energy_loss_gj_high,
-            annual_cost=totals.annual_cost,
-            annual_cost_low=totals.annual_cost_low,
-            annual_cost_high=totals.annual_cost_high,
-            annual_co2_t=totals.annual_co2_t,
-            annual_co2_t_low=totals.annual_co2_t_low,
-            annual_co2_t_high=totals.annual_co2_t_high,
+            **ranged_fields(
+                summary.totals.failure, summary.totals.failure_low, summary.totals.failure_high
+            ),
             totals=totals,
             by_condition=_groups({str(key): tally for key, tally in summary.by_condition.items()}),
             by_area=_groups(summary.by_area),
             by_application=_groups(
                 {str(key): tally for key, tally in summary.by_application.items()}
             ),
+            by_destination=_groups(
+                {str(key): tally for key, tally in summary.by_destination.items()}
+            ),
             risk_count=len(summary.risks),
+            unknown_count=summary.traps_not_accessible + summary.traps_untested,
             risks=[PricedTrapOut.of(priced) for priced in summary.risks],
             repair_list=[PricedTrapOut.of(priced) for priced in summary.repair_list],
         )
@@ -275,8 +314,8 @@ class TrapChangeOut(BaseModel):
     condition_before: TrapCondition | None
     condition_after: TrapCondition | None
     repaired_on: dt.date | None
-    annual_total_cost_before: float
-    annual_total_cost_after: float
+    annual_cost_before: float = Field(description="Failure loss")
+    annual_cost_after: float
 
     @classmethod
     def of(cls, change: TrapChange) -> "TrapChangeOut":
@@ -288,28 +327,41 @@ class TrapChangeOut(BaseModel):
             condition_before=change.condition_before,
             condition_after=change.condition_after,
             repaired_on=change.repaired_on,
-            annual_total_cost_before=change.yearly_cost_before,
-            annual_total_cost_after=change.yearly_cost_after,
+            annual_cost_before=change.yearly_cost_before,
+            annual_cost_after=change.yearly_cost_after,
         )
 
 
 class ComparisonOut(BaseModel):
-    """From one survey to a later one. A negative cost change is money saved."""
+    """From one survey to a later one, over the traps tested in operation in both.
+
+    Costs are failure losses; a negative change is money saved. The change's range
+    holds the site's assumptions fixed on both sides (low with low, high with high).
+    """
 
     from_survey: SurveyRef
     to_survey: SurveyRef
     failed_before: int
     failed_after: int
-    annual_total_cost_before: float | None
-    annual_total_cost_after: float | None
+    traps_compared: int = Field(description="Tested in operation in both rounds")
+    traps_left_out: int = Field(description="Tested in operation in one round only")
+    traps_only_before: int
+    traps_only_after: int
+    annual_cost_before: float = Field(description="Failure loss, over the traps compared")
+    annual_cost_after: float
     annual_cost_change: float
     annual_cost_change_low: float
     annual_cost_change_high: float
+    annual_installation_cost_before: float = Field(description="Over the traps compared")
+    annual_installation_cost_after: float
     newly_failed: list[TrapChangeOut]
     repaired_and_confirmed: list[TrapChangeOut]
     recovered_without_repair: list[TrapChangeOut]
     still_failed: list[TrapChangeOut]
     not_retested: list[TrapChangeOut]
+    new_risk: list[TrapChangeOut]
+    risk_removed: list[TrapChangeOut]
+    still_a_risk: list[TrapChangeOut]
     change_counts: dict[Change, int] = Field(description="Traps in each list, in all")
 
     @classmethod
@@ -324,20 +376,23 @@ class ComparisonOut(BaseModel):
         before, after = comparison.before, comparison.after
         assert before.survey is not None
         assert after.survey is not None
+        change_low, change_high = comparison.cost_change_range
         return cls(
             from_survey=SurveyRef.of(before.survey),
             to_survey=SurveyRef.of(after.survey),
             failed_before=before.failed_count,
             failed_after=after.failed_count,
-            annual_total_cost_before=before.totals.total.cost,
-            annual_total_cost_after=after.totals.total.cost,
+            traps_compared=comparison.traps_compared,
+            traps_left_out=comparison.traps_left_out,
+            traps_only_before=comparison.traps_only_before,
+            traps_only_after=comparison.traps_only_after,
+            annual_cost_before=comparison.failure_cost_before.typical,
+            annual_cost_after=comparison.failure_cost_after.typical,
             annual_cost_change=comparison.cost_change,
-            annual_cost_change_low=comparison.cost_change_low,
-            annual_cost_change_high=comparison.cost_change_high,
-            newly_failed=listed(Change.NEWLY_FAILED),
-            repaired_and_confirmed=listed(Change.REPAIRED_AND_CONFIRMED),
-            recovered_without_repair=listed(Change.RECOVERED_WITHOUT_REPAIR),
-            still_failed=listed(Change.STILL_FAILED),
-            not_retested=listed(Change.NOT_RETESTED),
+            annual_cost_change_low=change_low,
+            annual_cost_change_high=change_high,
+            annual_installation_cost_before=comparison.installation_cost_before,
+            annual_installation_cost_after=comparison.installation_cost_after,
+            **{change.value: listed(change) for change in Change},
             change_counts={change: len(comparison.changes.get(change, [])) for change in Change},
         )

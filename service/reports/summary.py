@@ -1,8 +1,15 @@
-"""The site roll-up: every tested trap priced, summed by condition, area and application.
+"""The site roll-up: every tested trap priced, summed by condition, area, application
+and condensate destination, in the accounting a manager signs.
 
 One pass over the traps and their latest findings in the survey. Each trap is priced
 by the calculation core exactly as `POST /api/v1/calc/trap-loss` would price it (see
 `pricing.py`); the roll-up only adds those figures up and ranks the repairs.
+
+Failure losses (live steam of leaking, blowing and rapid-cycling traps) are what a
+repair removes: the repair list, its order and every payback rest on them alone.
+Installation losses (flash vented, condensate drained) follow from where traps
+discharge, whatever their condition, and are summed apart as opportunities. Risks
+(plugged, flooded) and unknowns (not accessible, untested) are counted and listed.
 """
 
 import datetime as dt
@@ -13,7 +20,13 @@ from sqlalchemy import func, or_, select
 from sqlalchemy.orm import Session
 
 from service.physics.annual import YearlyLoss
-from service.physics.conditions import TrapCondition, is_failed, is_flooding_risk
+from service.physics.conditions import (
+    FindingCategory,
+    TrapCondition,
+    category_of,
+    is_failed,
+    is_flooding_risk,
+)
 from service.physics.trap_loss import CondensateDestination, TrapLoss, TrapService
 from service.reports.pricing import SitePricing
 from service.store.latest import is_latest_finding
@@ -36,6 +49,7 @@ class SummaryRow(NamedTuple):
     trap_type: TrapType
     orifice_diameter_mm: float
     inlet_pressure_kpa_g: float
+    steam_temperature_c: float | None
     return_pressure_kpa_g: float
     condensate_destination: CondensateDestination
     condensate_load_kg_h: float | None
@@ -45,6 +59,7 @@ class SummaryRow(NamedTuple):
     tested_at: dt.datetime | None
     condition: TrapCondition | None
     loss_factor_override: float | None
+    upstream_temperature_c: float | None
     recommended_action: RecommendedAction | None
 
 
@@ -73,8 +88,18 @@ class PricedTrap:
     failed: bool  # needs repair: wastes steam or floods the equipment
 
     @property
+    def category(self) -> FindingCategory:
+        return category_of(self.condition)
+
+    @property
     def yearly_cost(self) -> float:
-        return self.loss.total.cost or 0.0
+        """The yearly cost of its failure loss: what a repair saves."""
+        return self.loss.failure.cost or 0.0
+
+    @property
+    def payback(self) -> float | None:
+        """Simple payback [years] on the typical failure loss."""
+        return self.payback_years(self.loss.failure.cost)
 
     def payback_years(self, yearly_cost: float | None) -> float | None:
         """Simple payback = repair cost / yearly saving; None where nothing is saved."""
@@ -122,20 +147,37 @@ class _Sum:
 
 
 class Tally:
-    """Sums over a group of priced traps."""
+    """Sums over a group of priced traps: failure losses with their range, installation
+    losses, and the count of traps in each accounting category."""
 
-    __slots__ = ("_drain", "_flash", "_live", "_live_high", "_live_low", "failed", "traps")
+    __slots__ = (
+        "_drain",
+        "_flash",
+        "_live",
+        "_live_high",
+        "_live_low",
+        "failed",
+        "failures",
+        "risks",
+        "traps",
+        "unknown",
+    )
 
     def __init__(self) -> None:
         self.traps = 0
         self.failed = 0
+        self.failures = self.risks = self.unknown = 0
         self._live, self._live_low, self._live_high = _Sum(), _Sum(), _Sum()
         self._flash, self._drain = _Sum(), _Sum()
 
     def add(self, priced: PricedTrap) -> None:
         loss = priced.loss
+        category = priced.category
         self.traps += 1
         self.failed += priced.failed
+        self.failures += category is FindingCategory.FAILURE
+        self.risks += category is FindingCategory.RISK
+        self.unknown += category is FindingCategory.UNKNOWN
         self._live.add(loss.live_steam)
         self._live_low.add(loss.live_steam_low)
         self._live_high.add(loss.live_steam_high)
@@ -146,6 +188,9 @@ class Tally:
         """Add another group's sums to this one."""
         self.traps += other.traps
         self.failed += other.failed
+        self.failures += other.failures
+        self.risks += other.risks
+        self.unknown += other.unknown
         self._live.absorb(other._live)
         self._live_low.absorb(other._live_low)
         self._live_high.absorb(other._live_high)
@@ -153,15 +198,16 @@ class Tally:
         self._drain.absorb(other._drain)
 
     @property
-    def live_steam(self) -> YearlyLoss:
+    def failure(self) -> YearlyLoss:
+        """Live steam of failed traps: the loss repairs remove."""
         return self._live.loss
 
     @property
-    def live_steam_low(self) -> YearlyLoss:
+    def failure_low(self) -> YearlyLoss:
         return self._live_low.loss
 
     @property
-    def live_steam_high(self) -> YearlyLoss:
+    def failure_high(self) -> YearlyLoss:
         return self._live_high.loss
 
     @property
@@ -173,20 +219,9 @@ class Tally:
         return self._drain.loss
 
     @property
-    def condensate(self) -> YearlyLoss:
+    def installation(self) -> YearlyLoss:
+        """Flash vented and condensate drained: what projects, not repairs, remove."""
         return self.flash_vented + self.condensate_to_drain
-
-    @property
-    def total(self) -> YearlyLoss:
-        return self.live_steam + self.condensate
-
-    @property
-    def total_low(self) -> YearlyLoss:
-        return self.live_steam_low + self.condensate
-
-    @property
-    def total_high(self) -> YearlyLoss:
-        return self.live_steam_high + self.condensate
 
 
 @dataclass(slots=True)
@@ -203,6 +238,7 @@ class SiteSummary:
     by_condition: dict[TrapCondition, Tally] = field(default_factory=dict)
     by_area: dict[str, Tally] = field(default_factory=dict)
     by_application: dict[Application, Tally] = field(default_factory=dict)
+    by_destination: dict[CondensateDestination, Tally] = field(default_factory=dict)
     priced: list[PricedTrap] = field(default_factory=list)
 
     @property
@@ -227,9 +263,15 @@ class SiteSummary:
 
     @property
     def repair_list(self) -> list[PricedTrap]:
-        """Failed traps that cost money, the costliest first."""
+        """Traps whose failure loss costs money, quickest payback first (those without a
+        repair cost last), then the costliest; one order for screen, report and CSV."""
         costly = [p for p in self.priced if p.failed and p.yearly_cost > 0.0]
-        return sorted(costly, key=lambda priced: (-priced.yearly_cost, priced.tag))
+
+        def order(priced: PricedTrap) -> tuple[bool, float, float, str]:
+            payback = priced.payback
+            return (payback is None, payback or 0.0, -priced.yearly_cost, priced.tag)
+
+        return sorted(costly, key=order)
 
 
 def _repair_cost(
@@ -265,6 +307,7 @@ def summary_rows(session: Session, site: Site, survey: Survey | None) -> list[Su
             Trap.trap_type,
             Trap.orifice_diameter_mm,
             Trap.inlet_pressure_kpa_g,
+            Trap.steam_temperature_c,
             Trap.return_pressure_kpa_g,
             Trap.condensate_destination,
             Trap.condensate_load_kg_h,
@@ -274,6 +317,7 @@ def summary_rows(session: Session, site: Site, survey: Survey | None) -> list[Su
             Finding.tested_at,
             Finding.condition,
             Finding.loss_factor_override,
+            Finding.upstream_temperature_c,
             Finding.recommended_action,
         )
         .outerjoin(Area, Area.id == Trap.area_id)
@@ -296,7 +340,10 @@ def _priced(
     assert row.condition is not None
     assert row.recommended_action is not None
     service = pricing.trap_service(
-        row, condition=row.condition, loss_factor_override=row.loss_factor_override
+        row,
+        condition=row.condition,
+        loss_factor_override=row.loss_factor_override,
+        upstream_temperature_c=row.upstream_temperature_c,
     )
     kind, cost = _repair_cost(site, row.trap_type, row.recommended_action)
     return PricedTrap(
@@ -345,7 +392,7 @@ def site_summary(
     summary = SiteSummary(site=site, survey=survey)
     pricing = pricing or SitePricing.of(site)
     repaired = _repairs_since(session, site)
-    cells: dict[tuple[TrapCondition, str, Application], Tally] = {}
+    cells: dict[tuple[TrapCondition, str, Application, CondensateDestination], Tally] = {}
     for row in summary_rows(session, site, survey):
         summary.traps_in_service += row.in_service
         if row.finding_id is None:
@@ -353,13 +400,20 @@ def site_summary(
             continue
         priced = _priced(site, pricing, row, repaired.get(row.trap_id))
         summary.priced.append(priced)
-        _tally_of(cells, (priced.condition, priced.area_name, priced.application)).add(priced)
-    for (condition, area_name, application), cell in cells.items():
+        cell_key = (
+            priced.condition,
+            priced.area_name,
+            priced.application,
+            row.condensate_destination,
+        )
+        _tally_of(cells, cell_key).add(priced)
+    for (condition, area_name, application, destination), cell in cells.items():
         for tally in (
             summary.totals,
             _tally_of(summary.by_condition, condition),
             _tally_of(summary.by_area, area_name),
             _tally_of(summary.by_application, application),
+            _tally_of(summary.by_destination, destination),
         ):
             tally.absorb(cell)
         if condition is TrapCondition.NOT_ACCESSIBLE:
@@ -372,5 +426,8 @@ def site_summary(
     }
     summary.by_application = {
         a: summary.by_application[a] for a in Application if a in summary.by_application
+    }
+    summary.by_destination = {
+        d: summary.by_destination[d] for d in CondensateDestination if d in summary.by_destination
     }
     return summary

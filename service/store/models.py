@@ -28,6 +28,7 @@ from sqlalchemy import (
 from sqlalchemy.engine import Dialect
 from sqlalchemy.orm import DeclarativeBase, Mapped, mapped_column, relationship
 
+from service.physics.annual import ClosedReturnPricing, HeatingValue
 from service.physics.conditions import TrapCondition
 from service.physics.trap_loss import CondensateDestination
 from service.physics.units import UnitSystem
@@ -106,6 +107,17 @@ class Site(Base):
     water_and_treatment_cost_per_tonne: Mapped[float]
     makeup_water_temperature_c: Mapped[float]
     co2_kg_per_gj_fuel: Mapped[float]
+    fuel_heating_value: Mapped[HeatingValue] = mapped_column(
+        _words(HeatingValue), server_default="lhv"
+    )
+    co2_factor_heating_value: Mapped[HeatingValue] = mapped_column(
+        _words(HeatingValue), server_default="lhv"
+    )
+    net_to_gross_ratio: Mapped[float] = mapped_column(server_default="0.9")
+    sewer_cost_per_tonne: Mapped[float] = mapped_column(server_default="0")
+    closed_return_pricing: Mapped[ClosedReturnPricing] = mapped_column(
+        _words(ClosedReturnPricing), server_default="heat_not_recovered"
+    )
     hours_per_year: Mapped[float]
     discharge_coefficient: Mapped[float]
     discharge_coefficient_low: Mapped[float]
@@ -154,6 +166,7 @@ class Trap(Base):
     connection_size: Mapped[str] = mapped_column(String(20), default="")
     orifice_diameter_mm: Mapped[float]
     inlet_pressure_kpa_g: Mapped[float]
+    steam_temperature_c: Mapped[float | None]  # a superheated line's; None: saturated
     return_pressure_kpa_g: Mapped[float]
     condensate_destination: Mapped[CondensateDestination] = mapped_column(
         _words(CondensateDestination)

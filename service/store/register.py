@@ -13,6 +13,7 @@ from sqlalchemy.orm import Session
 
 from service.physics import steam_tables
 from service.physics.conditions import TrapCondition
+from service.physics.orifice import live_steam
 from service.physics.pressure import (
     STANDARD_ATMOSPHERE_KPA,
     absolute_from_gauge,
@@ -182,6 +183,14 @@ def _check_trap(session: Session, site: Site, data: TrapCreate, trap_id: int | N
         if area is None or area.site_id != site.id:
             raise FieldError("area_id", f"the site has no area {data.area_id}")
     _check_pressures(site, data.inlet_pressure_kpa_g, data.return_pressure_kpa_g)
+    if data.steam_temperature_c is not None:
+        inlet_kpa_abs = absolute_from_gauge(
+            data.inlet_pressure_kpa_g, site.atmospheric_pressure_kpa
+        )
+        try:
+            live_steam(inlet_kpa_abs, data.steam_temperature_c)
+        except ValueError as error:
+            raise FieldError("steam_temperature_c", str(error)) from error
     clash = session.scalar(
         select(Trap.id).where(
             Trap.site_id == site.id, Trap.tag == data.tag, Trap.id != (trap_id or -1)

@@ -22,14 +22,21 @@ from service.physics.annual import (
     DEFAULT_BOILER_EFFICIENCY,
     DEFAULT_CO2_KG_PER_GJ_FUEL,
     DEFAULT_MAKEUP_WATER_TEMPERATURE_C,
+    DEFAULT_NET_TO_GROSS_RATIO,
     HOURS_IN_LEAP_YEAR,
     MIN_BOILER_EFFICIENCY,
+    ClosedReturnPricing,
+    HeatingValue,
 )
 from service.physics.conditions import DEFAULT_LOSS_FACTORS, TrapCondition, wastes_live_steam
 from service.physics.orifice import MAXIMUM_ORIFICE_MM
 from service.physics.pressure import STANDARD_ATMOSPHERE_KPA
 from service.physics.steam_tables import CRITICAL_PRESSURE_KPA
-from service.physics.trap_loss import DEFAULT_DISCHARGE_COEFFICIENT, CondensateDestination
+from service.physics.trap_loss import (
+    DEFAULT_DISCHARGE_COEFFICIENT,
+    CondensateDestination,
+    require_destination_fits_return,
+)
 from service.physics.units import UnitSystem
 from service.store.vocabulary import (
     Application,
@@ -80,6 +87,8 @@ Elevation = Annotated[float, Field(ge=-500.0, le=5500.0)]
 Atmosphere = Annotated[float, Field(gt=50.0, le=110.0)]
 Currency = Annotated[str, StringConstraints(pattern=r"^[A-Z]{3}$")]
 SurfaceTemperature = Annotated[float, Field(ge=-60.0, le=450.0)]
+SteamTemperature = Annotated[float, Field(ge=0.01, le=800.0)]  # IF97 region 2's range
+NetToGrossRatio = Annotated[float, Field(ge=0.8, le=1.0)]  # every common fuel lies within
 RoutePosition = Annotated[int, Field(ge=0, le=10_000_000)]
 RecordId = Annotated[int, Field(ge=1, le=2_147_483_647)]  # 32-bit ids on every database
 
@@ -154,6 +163,11 @@ class SiteCreate(StrictInput):
     water_and_treatment_cost_per_tonne: Money = 0.0
     makeup_water_temperature_c: MakeupTemperature = DEFAULT_MAKEUP_WATER_TEMPERATURE_C
     co2_kg_per_gj_fuel: Co2Factor = DEFAULT_CO2_KG_PER_GJ_FUEL
+    fuel_heating_value: HeatingValue = HeatingValue.LHV
+    co2_factor_heating_value: HeatingValue = HeatingValue.LHV
+    net_to_gross_ratio: NetToGrossRatio = DEFAULT_NET_TO_GROSS_RATIO
+    sewer_cost_per_tonne: Money = 0.0
+    closed_return_pricing: ClosedReturnPricing = ClosedReturnPricing.HEAT_NOT_RECOVERED
     hours_per_year: HoursPerYear = DEFAULT_HOURS_PER_YEAR
     discharge_coefficient: DischargeCoefficient = DEFAULT_DISCHARGE_COEFFICIENT.typical
     discharge_coefficient_low: DischargeCoefficient = DEFAULT_DISCHARGE_COEFFICIENT.low
@@ -207,6 +221,11 @@ class SiteUpdate(StrictInput):
     water_and_treatment_cost_per_tonne: Money | None = None
     makeup_water_temperature_c: MakeupTemperature | None = None
     co2_kg_per_gj_fuel: Co2Factor | None = None
+    fuel_heating_value: HeatingValue | None = None
+    co2_factor_heating_value: HeatingValue | None = None
+    net_to_gross_ratio: NetToGrossRatio | None = None
+    sewer_cost_per_tonne: Money | None = None
+    closed_return_pricing: ClosedReturnPricing | None = None
     hours_per_year: HoursPerYear | None = None
     discharge_coefficient: DischargeCoefficient | None = None
     discharge_coefficient_low: DischargeCoefficient | None = None
@@ -230,6 +249,11 @@ class SiteOut(StoredOut):
     water_and_treatment_cost_per_tonne: float
     makeup_water_temperature_c: float
     co2_kg_per_gj_fuel: float
+    fuel_heating_value: HeatingValue
+    co2_factor_heating_value: HeatingValue
+    net_to_gross_ratio: float
+    sewer_cost_per_tonne: float
+    closed_return_pricing: ClosedReturnPricing
     hours_per_year: float
     discharge_coefficient: float
     discharge_coefficient_low: float
@@ -267,6 +291,7 @@ class TrapCreate(StrictInput):
     connection_size: Annotated[str, StringConstraints(max_length=20)] = ""
     orifice_diameter_mm: OrificeDiameter
     inlet_pressure_kpa_g: GaugePressure
+    steam_temperature_c: SteamTemperature | None = None
     return_pressure_kpa_g: GaugePressure
     condensate_destination: CondensateDestination = CondensateDestination.CLOSED_RETURN
     condensate_load_kg_h: CondensateLoad | None = None
@@ -286,6 +311,16 @@ class TrapCreate(StrictInput):
             )
         return value
 
+    @field_validator("condensate_destination")
+    @classmethod
+    def _vented_receiver_at_atmosphere(
+        cls, value: CondensateDestination, info: ValidationInfo
+    ) -> CondensateDestination:
+        return_pressure = info.data.get("return_pressure_kpa_g")
+        if return_pressure is not None:
+            require_destination_fits_return(value, return_pressure)
+        return value
+
 
 class TrapUpdate(StrictInput):
     """Any of a trap's fields; the merged trap is checked as a whole, as on creation."""
@@ -299,6 +334,7 @@ class TrapUpdate(StrictInput):
     connection_size: Annotated[str, StringConstraints(max_length=20)] | None = None
     orifice_diameter_mm: OrificeDiameter | None = None
     inlet_pressure_kpa_g: GaugePressure | None = None
+    steam_temperature_c: SteamTemperature | None = None
     return_pressure_kpa_g: GaugePressure | None = None
     condensate_destination: CondensateDestination | None = None
     condensate_load_kg_h: CondensateLoad | None = None
@@ -320,6 +356,7 @@ class TrapOut(StoredOut):
     connection_size: str
     orifice_diameter_mm: float
     inlet_pressure_kpa_g: float
+    steam_temperature_c: float | None
     return_pressure_kpa_g: float
     condensate_destination: CondensateDestination
     condensate_load_kg_h: float | None

@@ -1,4 +1,4 @@
-"""The trade's words for traps, their uses, tests and repairs (shared/DOMAIN.md).
+"""The trade's words for traps, their uses, tests and repairs.
 
 Trap conditions and condensate destinations belong to the calculation core
 (`service.physics`); these are the words only the register and surveys need.
@@ -15,6 +15,17 @@ class TrapType(StrEnum):
     THERMOSTATIC_BIMETALLIC = "thermostatic_bimetallic"
     THERMOSTATIC_LIQUID_EXPANSION = "thermostatic_liquid_expansion"
     FIXED_ORIFICE = "fixed_orifice"
+
+
+# How far below saturation a thermostatic trap discharges condensate [K] where no
+# temperature before the trap was measured. Common practice, no single source:
+# balanced-pressure elements open some 10-30 K below saturation (20 K taken), bimetallic
+# and liquid-expansion elements further (30 K taken). Other types discharge at saturation.
+DISCHARGE_SUBCOOLING_K: dict[TrapType, float] = {
+    TrapType.THERMOSTATIC_BALANCED_PRESSURE: 20.0,
+    TrapType.THERMOSTATIC_BIMETALLIC: 30.0,
+    TrapType.THERMOSTATIC_LIQUID_EXPANSION: 30.0,
+}
 
 
 class Application(StrEnum):
@@ -93,6 +104,13 @@ LABELS: dict[str, str] = {
     "drain": "Drain",
     "steam_cost": "Steam cost per tonne",
     "fuel_price": "Fuel price per GJ",
+    "lhv": "Net (lower) heating value, LHV",
+    "hhv": "Gross (higher) heating value, HHV",
+    "heat_not_recovered": "Heat the return does not bring back",
+    "as_steam_lost": "As steam lost, made again from make-up",
+    "failure": "Failure losses",
+    "risk": "Risks",
+    "unknown": "Unknown",
 }
 
 

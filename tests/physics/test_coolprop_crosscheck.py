@@ -1,7 +1,8 @@
 """IF97 against an independent formulation: CoolProp's default water model, IAPWS-95.
 
-The two formulations are different fits of the same measurements; saturation
-enthalpies agree to about 0.02 % (shared/DOMAIN.md), so 0.1 % is a firm bound.
+The two formulations are different fits of the same measurements (IAPWS-95: Wagner and
+Pruss 2002, J. Phys. Chem. Ref. Data 31:387); saturation enthalpies agree to about
+0.02 % (from memory), so 0.1 % is a firm bound.
 """
 
 import numpy as np

@@ -171,3 +171,105 @@ def test_a_plugged_trap_against_a_high_return_is_still_reported() -> None:
 def test_a_spread_must_hold_its_typical_value() -> None:
     with pytest.raises(ValueError, match="must contain"):
         Spread(0.9, 0.6, 0.8)
+
+
+def test_a_repair_removes_the_failure_loss_and_leaves_the_installation_loss() -> None:
+    # The accounting: live steam is the failure loss, flash vented the installation loss.
+    failed = trap_loss(
+        _trap(condensate_load_kg_h=100.0, destination=CondensateDestination.VENTED_RECEIVER),
+        PRICES,
+    )
+    repaired = trap_loss(
+        _trap(
+            condition=TrapCondition.WORKING,
+            condensate_load_kg_h=100.0,
+            destination=CondensateDestination.VENTED_RECEIVER,
+        ),
+        PRICES,
+    )
+    assert failed.failure.cost > 0.0  # type: ignore[operator]
+    assert repaired.failure.cost == 0.0
+    assert repaired.installation == failed.installation
+    assert failed.total.cost == pytest.approx(failed.failure.cost + failed.installation.cost)  # type: ignore[operator]
+
+
+def test_live_steam_into_a_closed_return_is_priced_on_the_heat_not_recovered() -> None:
+    # IAPWS R7-97(2012) properties: the return brings back hf at its own pressure, so the
+    # heat lost is hg(p1) - hf(p_return); no water or treatment is charged.
+    from service.physics import steam_tables
+    from service.physics.annual import ClosedReturnPricing
+
+    fuel = Economics(fuel_price_per_gj=10.0, water_and_treatment_cost_per_tonne=3.0)
+    closed = trap_loss(_trap(return_pressure_kpa_abs=301.325), fuel)
+    vented_pricing = Economics(
+        fuel_price_per_gj=10.0,
+        water_and_treatment_cost_per_tonne=3.0,
+        closed_return_pricing=ClosedReturnPricing.AS_STEAM_LOST,
+    )
+    as_lost = trap_loss(_trap(return_pressure_kpa_abs=301.325), vented_pricing)
+    inlet = steam_tables.saturation_at_pressure(INLET)
+    returned = steam_tables.saturation_at_pressure(301.325)
+    mass_t = closed.live_steam.mass_t
+    assert closed.live_steam.energy_gj == pytest.approx(
+        mass_t * (inlet.hg_kj_kg - returned.hf_kj_kg) / 1000.0
+    )
+    assert closed.live_steam.cost == pytest.approx(closed.live_steam.fuel_gj * 10.0)
+    assert as_lost.live_steam.cost == pytest.approx(
+        as_lost.live_steam.fuel_gj * 10.0 + mass_t * 3.0
+    )
+    assert closed.live_steam.cost < as_lost.live_steam.cost  # type: ignore[operator]
+
+
+def test_condensate_below_saturation_flashes_less() -> None:
+    # The mixing rule from h(p1, T1) in IF97 region 1 (IAPWS R7-97(2012)); a thermostatic
+    # trap holding condensate 20 K below saturation vents less flash.
+    vented = {
+        "condition": TrapCondition.WORKING,
+        "condensate_load_kg_h": 100.0,
+        "destination": CondensateDestination.VENTED_RECEIVER,
+    }
+    saturated = trap_loss(_trap(**vented), PRICES)
+    subcooled = trap_loss(_trap(condensate_temperature_c=164.0, **vented), PRICES)
+    expected = flash_of_condensate(INLET, RETURN, 164.0).flash_fraction
+    assert subcooled.condensate.flash_fraction == pytest.approx(expected)
+    assert subcooled.condensate.flash_vented_kg_h < saturated.condensate.flash_vented_kg_h
+
+
+def test_a_superheated_line_loses_less_mass_but_more_heat_per_kilogram() -> None:
+    # IF97 region 2 for h(p1, T1); the nozzle correction for the mass (checked against
+    # CoolProp in test_orifice.py).
+    saturated = trap_loss(_trap(), PRICES)
+    superheated = trap_loss(_trap(steam_temperature_c=250.0), PRICES)
+    assert superheated.steam_loss_kg_h.typical < saturated.steam_loss_kg_h.typical
+    assert superheated.method is FlowMethod.NAPIER_NOZZLE_CORRECTED
+    heat = superheated.live_steam.energy_gj / superheated.live_steam.mass_t
+    assert heat > saturated.live_steam.energy_gj / saturated.live_steam.mass_t
+
+
+def test_a_sewer_charge_adds_to_condensate_run_to_drain_only() -> None:
+    sewer = Economics(fuel_price_per_gj=10.0, sewer_cost_per_tonne=1.5)
+    plain = Economics(fuel_price_per_gj=10.0)
+    drained = {
+        "condition": TrapCondition.WORKING,
+        "condensate_load_kg_h": 50.0,
+        "destination": CondensateDestination.DRAIN,
+    }
+    with_charge = trap_loss(_trap(**drained), sewer).condensate.condensate_to_drain
+    without = trap_loss(_trap(**drained), plain).condensate.condensate_to_drain
+    assert with_charge.cost == pytest.approx(without.cost + 1.5 * without.mass_t)  # type: ignore[operator]
+    assert with_charge.co2_t == without.co2_t
+
+
+@pytest.mark.parametrize(
+    ("destination", "return_kpa_g"),
+    [(CondensateDestination.VENTED_RECEIVER, 60.0)],
+)
+def test_a_vented_receiver_above_atmosphere_is_refused(
+    destination: CondensateDestination, return_kpa_g: float
+) -> None:
+    from service.physics.trap_loss import require_destination_fits_return
+
+    with pytest.raises(ValueError, match="open to atmosphere"):
+        require_destination_fits_return(destination, return_kpa_g)
+    require_destination_fits_return(destination, 2.0)
+    require_destination_fits_return(CondensateDestination.CLOSED_RETURN, return_kpa_g)

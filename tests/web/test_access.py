@@ -37,6 +37,7 @@ TABLE: dict[tuple[str, str], tuple[str, bool, int]] = {
     ("POST", "/api/v1/steam/state"): (R, False, 422),
     ("POST", "/api/v1/calc/flash"): (R, False, 422),
     ("POST", "/api/v1/calc/trap-loss"): (R, False, 422),
+    ("POST", "/api/v1/calc/flash-recovery"): (R, False, 422),
     ("POST", "/api/v1/sites"): (A, False, 422),
     ("GET", "/api/v1/sites"): (R, False, 200),
     ("GET", "/api/v1/sites/{site_id}"): (R, True, 200),

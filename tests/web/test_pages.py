@@ -35,21 +35,39 @@ def test_the_summary_page_carries_the_apis_numbers(api: TestClient, demo: dict[s
     context = answer.context  # type: ignore[attr-defined]
     from_api = api.get(f"/api/v1/sites/{site_id}/summary").json()
     assert context["summary"].model_dump(mode="json") == from_api
-    shown = context["show"].money(from_api["totals"]["annual_total_cost"])
+    # The headline is the failure loss; installation losses stand apart, never summed in.
+    shown = context["show"].money(from_api["annual_cost"])
     assert shown in answer.text
+    installation = context["show"].money(from_api["totals"]["annual_installation_cost"])
+    assert installation in answer.text
+    total = from_api["annual_cost"] + from_api["totals"]["annual_installation_cost"]
+    assert context["show"].money(total) not in answer.text
     assert context["comparison"].from_survey.id == demo["earlier"]["id"]
     for heading in (
+        "Failure losses found in",
         "Repair list, quickest payback first",
         "Risks",
-        "Where the money goes",
-        "Condensate lost where traps discharge",
+        "Where the failure losses are",
+        "Installation losses: opportunities beyond repairs",
         "Assumptions and methods",
         "Before anyone acts on these figures",
         "Since Spring survey 2025",
     ):
         assert heading in answer.text
-    paybacks = [item.payback_years for item in context["by_payback"]]
+    # The screen's order is the API's and the CSV's: by payback on failure losses.
+    paybacks = [item.payback_years for item in context["summary"].repair_list]
     assert paybacks == sorted(paybacks)
+    ranked = api.get(f"/api/v1/sites/{site_id}/exports/repair-list.csv").text.splitlines()[1:]
+    screen_tags = [item.tag for item in context["summary"].repair_list]
+    assert [line.split(",")[1] for line in ranked] == screen_tags
+    repair_section = answer.text.split('id="repairs-title"', 1)[1].split('id="risks-title"')[0]
+    shown_tags = re.findall(r'<td><a href="/traps/\d+">([^<]+)</a></td>', repair_section)
+    assert shown_tags == screen_tags[: len(shown_tags)]
+    # The condition chart draws failure losses only: no "Working" bar.
+    chart = answer.text.split("Yearly cost of failure losses, by condition found", 1)[1].split(
+        "</figure>", 1
+    )[0]
+    assert ">Working<" not in chart
 
 
 def test_the_report_is_the_summary_for_print(api: TestClient, demo: dict[str, Any]) -> None:
@@ -68,8 +86,10 @@ def test_the_site_home_shows_the_headline_and_the_change(
     home = api.get(f"/sites/{site_id}")
     summary = api.get(f"/api/v1/sites/{site_id}/summary").json()
     show = home.context["show"]  # type: ignore[attr-defined]
-    assert show.money(summary["totals"]["annual_total_cost"]) in home.text
+    assert show.money(summary["annual_cost"]) in home.text
+    assert show.money(summary["totals"]["annual_installation_cost"]) in home.text
     assert "a year less" in home.text
+    assert "traps tested in both" in home.text
     assert f"{summary['failed_count']} of {summary['traps_tested']} tested" in home.text
 
 
@@ -349,7 +369,7 @@ def test_the_register_and_a_traps_page(api: TestClient, demo: dict[str, Any]) ->
     assert page.status_code == 200
     summary = api.get(f"/api/v1/sites/{site_id}/summary").json()
     item = next(i for i in summary["repair_list"] if i["trap_id"] == trap["id"])
-    assert page.context["loss"].total.cost == pytest.approx(item["annual_total_cost"])  # type: ignore[attr-defined]
+    assert page.context["loss"].failure.cost == pytest.approx(item["annual_cost"])  # type: ignore[attr-defined]
     assert "Findings and repairs, newest first" in page.text
     assert api.get(f"/sites/{site_id}/register", params={"offset": 50}).status_code == 200
 
@@ -426,6 +446,6 @@ def test_the_sites_page_shows_each_sites_latest_headline(
     listing = api.get("/")
     summary = api.get(f"/api/v1/sites/{demo['site']['id']}/summary").json()
     show = listing.context["displays"][demo["site"]["id"]]  # type: ignore[attr-defined]
-    assert show.money(summary["totals"]["annual_total_cost"]) in listing.text
+    assert show.money(summary["annual_cost"]) in listing.text
     assert "Empty Works" in listing.text
     assert "No survey yet." in listing.text

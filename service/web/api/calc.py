@@ -1,4 +1,7 @@
-"""Calculations: the flash of condensate, and one trap's yearly losses."""
+"""Calculations: the flash of condensate, flash recovery, and one trap's yearly losses.
+
+Input limits are the store's (`service.store.schemas`), so a stored site can always be
+priced here and the reverse."""
 
 from typing import Annotated, Any, Self
 
@@ -10,19 +13,22 @@ from service.physics.annual import (
     DEFAULT_BOILER_EFFICIENCY,
     DEFAULT_CO2_KG_PER_GJ_FUEL,
     DEFAULT_MAKEUP_WATER_TEMPERATURE_C,
-    HOURS_IN_LEAP_YEAR,
-    MIN_BOILER_EFFICIENCY,
+    DEFAULT_NET_TO_GROSS_RATIO,
+    ClosedReturnPricing,
     Economics,
+    HeatingValue,
     YearlyLoss,
 )
 from service.physics.conditions import (
     DEFAULT_LOSS_FACTORS,
+    FindingCategory,
     TrapCondition,
+    category_of,
     discharges_condensate,
     wastes_live_steam,
 )
-from service.physics.flash import flash_of_condensate
-from service.physics.orifice import MAXIMUM_ORIFICE_MM, FlowMethod, FlowRegime
+from service.physics.flash import flash_of_condensate, flash_recovery
+from service.physics.orifice import FlowMethod, FlowRegime, live_steam
 from service.physics.spread import Spread
 from service.physics.trap_loss import (
     DEFAULT_DISCHARGE_COEFFICIENT,
@@ -32,6 +38,22 @@ from service.physics.trap_loss import (
     loss_factor_for,
     trap_loss,
 )
+from service.reports.pricing import condensate_temperature_c
+from service.store.schemas import (
+    Co2Factor,
+    CondensateLoad,
+    DischargeCoefficient,
+    Efficiency,
+    Fraction,
+    HoursPerYear,
+    MakeupTemperature,
+    Money,
+    NetToGrossRatio,
+    OrificeDiameter,
+    SteamTemperature,
+    SurfaceTemperature,
+)
+from service.store.vocabulary import TrapType
 from service.web.access import require
 from service.web.api.inputs import GaugePressure, SiteInput
 from service.web.errors import reported_against
@@ -39,10 +61,6 @@ from service.web.errors import reported_against
 router = APIRouter(
     prefix="/calc", tags=["calculations"], dependencies=[Depends(require(Permission.READ))]
 )
-
-Fraction = Annotated[float, Field(ge=0.0, le=1.0)]
-DischargeCoefficient = Annotated[float, Field(gt=0.0, le=1.0)]
-Money = Annotated[float, Field(ge=0.0, le=1e6)]
 
 
 def _return_below_inlet(value: float, info: ValidationInfo) -> float:
@@ -80,7 +98,8 @@ class FlashOut(BaseModel):
 
 @router.post("/flash", summary="Flash fraction of condensate discharged to a lower pressure")
 def flash(body: FlashIn) -> FlashOut:
-    """x2 = (h1 - hf(p2)) / hfg(p2), zero where h1 <= hf(p2) (shared/DOMAIN.md)."""
+    """x2 = (h1 - hf(p2)) / hfg(p2), zero where h1 <= hf(p2): the mixing rule with
+    IAPWS R7-97(2012) properties."""
     with reported_against("body", "condensate_temperature_c", typed=body.condensate_temperature_c):
         result = flash_of_condensate(
             body.absolute(body.inlet_pressure_kpa_g),
@@ -96,26 +115,37 @@ class TrapLossIn(SiteInput):
     condition: TrapCondition
     inlet_pressure_kpa_g: GaugePressure
     return_pressure_kpa_g: GaugePressure
-    orifice_diameter_mm: Annotated[float, Field(gt=0.0, le=MAXIMUM_ORIFICE_MM)]
-    hours_per_year: Annotated[float, Field(ge=0.0, le=HOURS_IN_LEAP_YEAR)]
+    steam_temperature_c: SteamTemperature | None = Field(
+        default=None, description="A superheated line's steam temperature [°C]; absent: saturated"
+    )
+    inlet_temperature_c: SurfaceTemperature | None = Field(
+        default=None,
+        description="Measured before the trap [°C]: condensate below saturation flashes less",
+    )
+    trap_type: TrapType | None = Field(
+        default=None, description="With no inlet temperature, a thermostatic type's subcooling"
+    )
+    orifice_diameter_mm: OrificeDiameter
+    hours_per_year: HoursPerYear
     discharge_coefficient: DischargeCoefficient = DEFAULT_DISCHARGE_COEFFICIENT.typical
     discharge_coefficient_low: DischargeCoefficient = DEFAULT_DISCHARGE_COEFFICIENT.low
     discharge_coefficient_high: DischargeCoefficient = DEFAULT_DISCHARGE_COEFFICIENT.high
     loss_factor: Fraction | None = None
     loss_factor_low: Fraction | None = None
     loss_factor_high: Fraction | None = None
-    condensate_load_kg_h: Annotated[float, Field(ge=0.0, le=100_000.0)] = 0.0
+    condensate_load_kg_h: CondensateLoad = 0.0
     condensate_destination: CondensateDestination = CondensateDestination.CLOSED_RETURN
     steam_cost_per_tonne: Money | None = None
     fuel_price_per_gj: Money | None = None
     water_and_treatment_cost_per_tonne: Money = 0.0
-    boiler_efficiency: Annotated[float, Field(ge=MIN_BOILER_EFFICIENCY, le=1.0)] = (
-        DEFAULT_BOILER_EFFICIENCY
-    )
-    makeup_water_temperature_c: Annotated[float, Field(ge=0.01, le=95.0)] = (
-        DEFAULT_MAKEUP_WATER_TEMPERATURE_C
-    )
-    co2_kg_per_gj_fuel: Annotated[float, Field(ge=0.0, le=200.0)] = DEFAULT_CO2_KG_PER_GJ_FUEL
+    sewer_cost_per_tonne: Money = 0.0
+    boiler_efficiency: Efficiency = DEFAULT_BOILER_EFFICIENCY
+    makeup_water_temperature_c: MakeupTemperature = DEFAULT_MAKEUP_WATER_TEMPERATURE_C
+    co2_kg_per_gj_fuel: Co2Factor = DEFAULT_CO2_KG_PER_GJ_FUEL
+    fuel_heating_value: HeatingValue = HeatingValue.LHV
+    co2_factor_heating_value: HeatingValue = HeatingValue.LHV
+    net_to_gross_ratio: NetToGrossRatio = DEFAULT_NET_TO_GROSS_RATIO
+    closed_return_pricing: ClosedReturnPricing = ClosedReturnPricing.HEAT_NOT_RECOVERED
 
     _return_below_inlet = field_validator("return_pressure_kpa_g")(_return_below_inlet)
 
@@ -142,6 +172,8 @@ class TrapLossIn(SiteInput):
             self.discharge_coefficient_spread()
         with reported_against("body", "loss_factor", typed=self.loss_factor):
             self.loss_factor_spread()
+        with reported_against("body", "steam_temperature_c", typed=self.steam_temperature_c):
+            self.trap_service()
         return self
 
     def loss_factor_spread(self) -> Spread:
@@ -164,8 +196,11 @@ class TrapLossIn(SiteInput):
         )
 
     def trap_service(self) -> TrapService:
+        inlet_pressure_kpa_abs = self.absolute(self.inlet_pressure_kpa_g)
+        if self.steam_temperature_c is not None:
+            live_steam(inlet_pressure_kpa_abs, self.steam_temperature_c)
         return TrapService(
-            inlet_pressure_kpa_abs=self.absolute(self.inlet_pressure_kpa_g),
+            inlet_pressure_kpa_abs=inlet_pressure_kpa_abs,
             return_pressure_kpa_abs=self.absolute(self.return_pressure_kpa_g),
             orifice_diameter_mm=self.orifice_diameter_mm,
             condition=self.condition,
@@ -174,6 +209,10 @@ class TrapLossIn(SiteInput):
             destination=self.condensate_destination,
             discharge_coefficient=self.discharge_coefficient_spread(),
             loss_factor=self.loss_factor_spread(),
+            steam_temperature_c=self.steam_temperature_c,
+            condensate_temperature_c=condensate_temperature_c(
+                self.trap_type, inlet_pressure_kpa_abs, self.inlet_temperature_c
+            ),
         )
 
     def economics(self) -> Economics:
@@ -184,13 +223,23 @@ class TrapLossIn(SiteInput):
             boiler_efficiency=self.boiler_efficiency,
             makeup_water_temperature_c=self.makeup_water_temperature_c,
             co2_kg_per_gj_fuel=self.co2_kg_per_gj_fuel,
+            fuel_heating_value=self.fuel_heating_value,
+            co2_factor_heating_value=self.co2_factor_heating_value,
+            net_to_gross_ratio=self.net_to_gross_ratio,
+            sewer_cost_per_tonne=self.sewer_cost_per_tonne,
+            closed_return_pricing=self.closed_return_pricing,
         )
 
 
 class TrapLossOut(BaseModel):
-    """A trap's losses. Unsuffixed figures are typical; `_low` and `_high` bound them."""
+    """A trap's losses. Unsuffixed figures are typical; `_low` and `_high` bound them.
+
+    `annual_*` without a kind are its failure loss (live steam: what a repair removes);
+    `annual_flash_*` and `annual_drain_*` its installation loss (where it discharges,
+    whatever its condition); `annual_total_*` the two together, beside their parts."""
 
     condition: TrapCondition
+    category: FindingCategory
     flow_regime: FlowRegime | None
     method: FlowMethod | None
     orifice_capacity_kg_h: float = Field(description="Dry steam at the typical Cd, fully open")
@@ -248,6 +297,7 @@ class TrapLossOut(BaseModel):
         condensate = loss.condensate
         return cls(
             condition=loss.condition,
+            category=category_of(loss.condition),
             flow_regime=loss.flow_regime,
             method=loss.method,
             orifice_capacity_kg_h=loss.orifice_capacity_kg_h,
@@ -286,3 +336,98 @@ class TrapLossOut(BaseModel):
 def trap_loss_endpoint(body: TrapLossIn) -> TrapLossOut:
     """Live steam by Napier or the isentropic nozzle, and the condensate's losses."""
     return TrapLossOut.from_loss(trap_loss(body.trap_service(), body.economics()))
+
+
+class FlashRecoveryIn(SiteInput):
+    """A group of traps' condensate flashed in a vessel, and what its steam is worth.
+
+    Price the steam's heat either directly (`steam_energy_price_per_gj`, per GJ of steam
+    heat above make-up) or on the fuel basis (`fuel_price_per_gj` and
+    `boiler_efficiency`); with neither, no value is given."""
+
+    condensate_load_kg_h: CondensateLoad
+    inlet_pressure_kpa_g: GaugePressure
+    vessel_pressure_kpa_g: GaugePressure
+    hours_per_year: HoursPerYear
+    makeup_water_temperature_c: MakeupTemperature = DEFAULT_MAKEUP_WATER_TEMPERATURE_C
+    inlet_temperature_c: SurfaceTemperature | None = Field(
+        default=None, description="Condensate before the traps [°C]; absent: saturated"
+    )
+    steam_energy_price_per_gj: Money | None = None
+    fuel_price_per_gj: Money | None = None
+    boiler_efficiency: Efficiency = DEFAULT_BOILER_EFFICIENCY
+    co2_kg_per_gj_fuel: Co2Factor = DEFAULT_CO2_KG_PER_GJ_FUEL
+
+    @field_validator("vessel_pressure_kpa_g")
+    @classmethod
+    def _vessel_below_inlet(cls, value: float, info: ValidationInfo) -> float:
+        inlet = info.data.get("inlet_pressure_kpa_g")
+        if inlet is not None and value >= inlet:
+            raise ValueError(
+                f"the vessel pressure ({value:g} kPa(g)) must be below the traps' inlet "
+                f"pressure ({inlet:g} kPa(g)) for condensate to flash"
+            )
+        return value
+
+    @field_validator("fuel_price_per_gj")
+    @classmethod
+    def _one_price(cls, value: float | None, info: ValidationInfo) -> float | None:
+        if value is not None and info.data.get("steam_energy_price_per_gj") is not None:
+            raise ValueError("give either steam_energy_price_per_gj or fuel_price_per_gj, not both")
+        return value
+
+
+class FlashRecoveryOut(BaseModel):
+    flash_fraction: float = Field(description="kg of flash steam per kg of condensate")
+    recovered_steam_kg_h: float
+    annual_recovered_steam_t: float
+    annual_energy_gj: float = Field(description="Heat of the live steam it displaces")
+    annual_fuel_gj: float = Field(description="Fuel the boiler no longer burns for it")
+    annual_value: float | None
+    annual_co2_t: float = Field(description="CO2 of that fuel")
+    caution: str
+
+
+FLASH_RECOVERY_CAUTION = (
+    "An estimate. The traps feeding the vessel must discharge against its pressure (back "
+    "pressure cuts their capacity), and a steady low-pressure load must take the steam. "
+    "A flash vessel is a pressure vessel: design, relief and inspection follow local codes."
+)
+
+
+@router.post("/flash-recovery", summary="Steam a flash vessel recovers, and its yearly value")
+def flash_recovery_endpoint(body: FlashRecoveryIn) -> FlashRecoveryOut:
+    """Yield by the mixing rule at the vessel's pressure; value as live steam displaced
+    from make-up water (US DOE Steam Tip Sheet #12)."""
+    inlet_pressure_kpa_abs = body.absolute(body.inlet_pressure_kpa_g)
+    economics = Economics(
+        boiler_efficiency=body.boiler_efficiency,
+        makeup_water_temperature_c=body.makeup_water_temperature_c,
+        co2_kg_per_gj_fuel=body.co2_kg_per_gj_fuel,
+    )
+    recovery = flash_recovery(
+        condensate_load_kg_h=body.condensate_load_kg_h,
+        inlet_pressure_kpa_abs=inlet_pressure_kpa_abs,
+        vessel_pressure_kpa_abs=body.absolute(body.vessel_pressure_kpa_g),
+        hours_per_year=body.hours_per_year,
+        makeup_water_enthalpy_kj_kg=economics.makeup_water_enthalpy_kj_kg,
+        condensate_temperature_c=condensate_temperature_c(
+            None, inlet_pressure_kpa_abs, body.inlet_temperature_c
+        ),
+    )
+    fuel_gj = recovery.annual_energy_gj / body.boiler_efficiency
+    value = None
+    if body.steam_energy_price_per_gj is not None:
+        value = recovery.annual_energy_gj * body.steam_energy_price_per_gj
+    elif body.fuel_price_per_gj is not None:
+        value = fuel_gj * body.fuel_price_per_gj
+    return FlashRecoveryOut(
+        flash_fraction=recovery.flash_fraction,
+        recovered_steam_kg_h=recovery.recovered_steam_kg_h,
+        annual_recovered_steam_t=recovery.annual_recovered_steam_t,
+        annual_energy_gj=recovery.annual_energy_gj,
+        annual_fuel_gj=fuel_gj,
+        annual_value=value,
+        annual_co2_t=fuel_gj * body.co2_kg_per_gj_fuel / 1000.0,
+        caution=FLASH_RECOVERY_CAUTION,
+    )

@@ -105,7 +105,10 @@ def trap_page(request: Request, trap_id: RecordId, db: Db, viewer: Reading) -> H
         if latest is not None:
             pricing = SitePricing.of(site)
             service = pricing.trap_service(
-                trap, condition=latest.condition, loss_factor_override=latest.loss_factor_override
+                trap,
+                condition=latest.condition,
+                loss_factor_override=latest.loss_factor_override,
+                upstream_temperature_c=latest.upstream_temperature_c,
             )
             loss = pricing.loss(service)
         return page(

@@ -86,10 +86,6 @@ def summary_context(
         "comparison": comparison,
         "surveys": surveys.surveys_of(session=session, site=site),
         "survey": survey,
-        "by_payback": sorted(
-            summary.repair_list,
-            key=lambda item: (item.payback_years is None, item.payback_years or 0.0),
-        ),
         "today": dt.date.today(),
         "row_limit": row_limit,
     }
