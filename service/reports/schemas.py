@@ -97,9 +97,11 @@ class GroupOut(TallyOut):
     label: str
 
 
-def _groups(tallies: dict[str, Tally]) -> list[GroupOut]:
+def _groups(tallies: dict[str, Tally], named: bool = False) -> list[GroupOut]:
+    """Groups of a breakdown; `named` ones (areas) keep their own names as labels, the
+    rest are the program's words, labelled for reading."""
     return [
-        GroupOut(key=key, label=label(key), **TallyOut.of(tally).model_dump())
+        GroupOut(key=key, label=key if named else label(key), **TallyOut.of(tally).model_dump())
         for key, tally in tallies.items()
     ]
 
@@ -293,7 +295,7 @@ class SummaryOut(BaseModel):
             ),
             totals=totals,
             by_condition=_groups({str(key): tally for key, tally in summary.by_condition.items()}),
-            by_area=_groups(summary.by_area),
+            by_area=_groups(summary.by_area, named=True),
             by_application=_groups(
                 {str(key): tally for key, tally in summary.by_application.items()}
             ),

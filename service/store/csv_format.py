@@ -9,6 +9,7 @@ spreadsheet shows them: the header is row 1, the first record row 2.
 
 import csv
 import io
+import re
 from dataclasses import dataclass, field
 
 from service.physics.units import convert
@@ -149,6 +150,27 @@ def number(table: Table, text: str) -> float:
 def number_in_program_unit(table: Table, text: str, column: UnitColumn, header: str) -> float:
     """A cell's number converted from its header's unit to the program's."""
     return convert(number(table, text), column.headers[header], column.program_unit)
+
+
+_FIGURE_IN_PROGRAM_UNIT = re.compile(r"(-?\d+(?:\.\d+)?(?:e[+-]?\d+)?) (kPa\(g\)|°C|mm|kg/h)")
+
+
+def in_file_units(message: str, units: dict[str, str]) -> str:
+    """A message's figures in the units the file gave them in: `units` maps each
+    program unit to the file's ('kPa(g)' -> 'psig'), so a US file hears psig.
+
+    >>> in_file_units("the return pressure (206.843 kPa(g)) must be below", {"kPa(g)": "psig"})
+    'the return pressure (30 psig) must be below'
+    """
+
+    def converted(match: re.Match[str]) -> str:
+        figure, program_unit = float(match.group(1)), match.group(2)
+        file_unit = units.get(program_unit, program_unit)
+        if file_unit == program_unit:
+            return match.group(0)
+        return f"{convert(figure, program_unit, file_unit):.5g} {file_unit}"
+
+    return _FIGURE_IN_PROGRAM_UNIT.sub(converted, message)
 
 
 def yes_or_no(text: str) -> bool:

@@ -21,9 +21,17 @@ def _headers(spec: ImportFormat) -> list[str]:
     return names + list(spec.extra_columns)
 
 
+# Figures are written to 12 significant digits: far finer than any gauge or scale reads,
+# and coarse enough that a value converted from US units (14.5 psig) and back does not
+# print as 99.99999999999999.
+EXPORT_DIGITS = 12
+
+
 def _cell(value: object) -> object:
     if isinstance(value, bool):
         return "yes" if value else "no"
+    if isinstance(value, float):
+        return float(f"{value:.{EXPORT_DIGITS}g}")
     if isinstance(value, dt.date):  # dates, and moments (datetime is a date)
         return value.isoformat()
     return value

@@ -26,6 +26,7 @@ from service.store.csv_format import (
     Table,
     UnitColumn,
     UnreadableFile,
+    in_file_units,
     number,
     number_in_program_unit,
     pressure_column,
@@ -96,6 +97,7 @@ REGISTER = ImportFormat(
         (pressure_column("inlet_pressure"), True),
         (pressure_column("return_pressure"), True),
         (LOAD, False),
+        (temperature_column("steam_temperature"), False),
     ),
     model=TrapCreate,
     extra_columns=("area",),
@@ -219,6 +221,7 @@ def _header_problems(table: Table, spec: ImportFormat) -> tuple[list[Problem], d
 def _read_row(
     table: Table,
     spec: ImportFormat,
+    units: dict[str, UnitColumn],
     chosen: dict[str, str],
     row: int,
     cells: dict[str, str],
@@ -233,7 +236,6 @@ def _read_row(
             fields[column.name] = _cell_value(table, column.kind, text)
         except ValueError as error:
             problems.append(Problem(row, column.name, str(error)))
-    units = {unit_column.field: unit_column for unit_column, _ in spec.unit_columns}
     for name, header in chosen.items():
         text = cells.get(header, "")
         if not text:
@@ -281,14 +283,26 @@ def _plan(
     if header_problems:
         plan.problems = header_problems
         return plan
+    units = {unit_column.field: unit_column for unit_column, _ in spec.unit_columns}
+    # Each program unit -> the unit this file wrote it in, so messages speak the file's.
+    file_units = {
+        units[name].program_unit: units[name].headers[header] for name, header in chosen.items()
+    }
     for row, cells in table.rows:
         row_problems: list[Problem] = []
-        fields = _read_row(table, spec, chosen, row, cells, row_problems)
+        fields = _read_row(table, spec, units, chosen, row, cells, row_problems)
         existing_id, trap_id = prepare(row, fields, row_problems)
         data = None if row_problems else _validated(spec, chosen, row, fields, row_problems)
         if data is not None and not row_problems:
             plan.rows.append(PlannedRow(row, data, existing_id, trap_id, cells))
-        plan.problems += row_problems
+        plan.problems += [
+            Problem(
+                problem.row,
+                chosen.get(problem.column, problem.column),
+                in_file_units(problem.message, file_units),
+            )
+            for problem in row_problems
+        ]
     if not table.rows:
         plan.problems.append(Problem(1, "", "the file has a header but no rows"))
     return plan

@@ -100,11 +100,11 @@ def test_the_printed_report_has_every_section(
     for section in (
         "Steam trap survey report",
         "Before anyone acts on these figures",
-        "Yearly losses",
+        "Failure losses",
         "Repair list",
         "Risks",
-        "Where the money goes",
-        "Condensate lost",
+        "Where the failure losses are",
+        "Installation losses",
         "Assumptions and methods",
         "Page 1 of",
     ):

@@ -1,5 +1,7 @@
 """Live steam through an orifice: Napier's equation and the isentropic nozzle."""
 
+import itertools
+
 import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
@@ -11,8 +13,8 @@ from service.physics.orifice import (
     FlowMethod,
     FlowRegime,
     isentropic_nozzle_flux,
-    napier_steam_flow_kg_h,
     live_steam,
+    napier_steam_flow_kg_h,
     nozzle_correction,
     orifice_area_m2,
     steam_discharge,
@@ -27,7 +29,8 @@ DOE_TABLE_DISCHARGE_COEFFICIENT = 29.45 / (3600.0 * 3.141592653589793 / 4.0 / 70
 
 
 def test_napier_constant_in_si() -> None:
-    # Napier: 1/70 lb/(s in2 psia) is 1.4567e-3 kg/(s m2 Pa) (Napier 1866; API 520 Part I (2014) 5.7).
+    # Napier: 1/70 lb/(s in2 psia) is 1.4567e-3 kg/(s m2 Pa) (Napier 1866; API 520 Part I
+    # (2014) 5.7).
     assert pytest.approx(1.4567e-3, rel=5e-5) == NAPIER_KG_PER_S_M2_PA
 
 
@@ -95,7 +98,7 @@ def test_no_step_where_the_flow_stops_being_choked() -> None:
     flows = [steam_discharge(5.0, 1000.0, p2, 1.0).flow_kg_h for p2 in (570.0, 576.0, 578.0, 590.0)]
     napier = napier_steam_flow_kg_h(5.0, 1000.0, 1.0)
     assert flows[0] == pytest.approx(napier, rel=1e-12)
-    assert all(abs(b - a) / a < 0.002 for a, b in zip(flows, flows[1:], strict=False))
+    assert all(abs(b - a) / a < 0.002 for a, b in itertools.pairwise(flows))
     assert flows == sorted(flows, reverse=True)
 
 

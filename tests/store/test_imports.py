@@ -232,3 +232,43 @@ def test_exports_import_back_to_the_same_data(api: TestClient) -> None:
         api.get(f"/api/v1/surveys/{copy_survey['id']}/exports/findings.csv").text == findings.text
     )
     assert api.get(f"/api/v1/sites/{copy['id']}/exports/repairs.csv").text == repairs.text
+
+
+def test_a_us_file_hears_its_problems_in_its_own_units(api: TestClient) -> None:
+    site = make_site(api)
+    content = (
+        "tag,application,trap_type,orifice_diameter_in,inlet_pressure_psig,return_pressure_psig\n"
+        "US-1,drip,thermodynamic,0.125,15,30\n"
+    )
+    result = _import(api, _register_path(site), content, commit=False)
+    (problem,) = result["problems"]
+    assert problem["column"] == "return_pressure_psig"
+    assert "30 psig" in problem["message"]
+    assert "15 psig" in problem["message"]
+    assert "kPa" not in problem["message"]
+
+
+def test_a_vented_receiver_above_atmosphere_is_refused_on_import(api: TestClient) -> None:
+    site = make_site(api)
+    content = (
+        "tag,application,trap_type,orifice_diameter_mm,inlet_pressure_kpa_g,"
+        "return_pressure_kpa_g,condensate_destination,steam_temperature_c\n"
+        "V-1,drip,thermodynamic,3,1000,60,vented_receiver,\n"
+        "S-1,drip,thermodynamic,3,1000,0,vented_receiver,250\n"
+    )
+    result = _import(api, _register_path(site), content, commit=False)
+    assert [(p["row"], p["column"]) for p in result["problems"]] == [(2, "condensate_destination")]
+    assert "open to atmosphere" in result["problems"][0]["message"]
+
+
+def test_exports_write_figures_without_float_noise(api: TestClient) -> None:
+    site = make_site(api)
+    content = (
+        "tag,application,trap_type,orifice_diameter_mm,inlet_pressure_bar_g,return_pressure_kpa_g\n"
+        "N-1,drip,thermodynamic,3,1.1,0\n"
+    )
+    assert _import(api, _register_path(site), content, commit=True)["problems"] == []
+    exported = api.get(f"/api/v1/sites/{site['id']}/exports/register.csv").text
+    # 1.1 bar is 110 kPa; as floats it multiplies to 110.00000000000001.
+    assert ",110.0," in exported
+    assert "110.00000000000001" not in exported

@@ -258,6 +258,36 @@ def test_settings_are_saved_and_bad_ones_are_kept_with_their_message(
     assert api.get(f"/api/v1/sites/{site_id}").json()["boiler_efficiency"] == 0.86
 
 
+def test_the_pricing_bases_are_set_on_the_settings_page_and_named_in_the_report(
+    api: TestClient, demo: dict[str, Any]
+) -> None:
+    site_id = demo["site"]["id"]
+    typed = api.get(f"/sites/{site_id}/settings").context["form"].typed  # type: ignore[attr-defined]
+    assert typed["fuel_heating_value"] == "lhv"
+    before = api.get(f"/api/v1/sites/{site_id}/summary").json()
+    bases = {
+        "fuel_heating_value": "hhv",
+        "closed_return_pricing": "as_steam_lost",
+        "sewer_cost_per_tonne": "1.2",
+        "net_to_gross_ratio": "0.9",
+    }
+    saved = api.post(f"/sites/{site_id}/settings", data={**typed, **bases}, follow_redirects=False)
+    assert saved.status_code == 303
+    site = api.get(f"/api/v1/sites/{site_id}").json()
+    assert (site["fuel_heating_value"], site["closed_return_pricing"]) == ("hhv", "as_steam_lost")
+    after = api.get(f"/api/v1/sites/{site_id}/summary").json()
+    # CO2 per gross GJ is 0.9 of the factor per net GJ (IPCC 2006 vol. 2 ch. 1, from memory).
+    assert after["totals"]["annual_installation_co2_t"] == pytest.approx(
+        before["totals"]["annual_installation_co2_t"] * 0.9, rel=1e-9
+    )
+    report = api.get(f"/sites/{site_id}/report").text
+    assert "Gross (higher) heating value, HHV" in report
+    assert "As steam lost, made again from make-up" in report
+    refused = api.post(f"/sites/{site_id}/settings", data={**typed, "net_to_gross_ratio": "1.4"})
+    assert refused.status_code == 422
+    assert 'value="1.4"' in refused.text
+
+
 def test_the_calculator_answers_and_explains_bad_input(client: TestClient) -> None:
     answer = client.get(
         "/calculator", params={"calc": "flash", "inlet": "1034.2136", "return": "206.8427"}
@@ -292,6 +322,51 @@ def test_the_calculator_answers_and_explains_bad_input(client: TestClient) -> No
     errors = uphill.context["form"].errors  # type: ignore[attr-defined]
     assert {"return", "orifice"} <= set(errors)
     assert 'value="200"' in uphill.text
+
+
+def test_the_calculator_recovers_flash_and_takes_the_sites_atmosphere(client: TestClient) -> None:
+    # US DOE Steam Tip Sheet #12: 5,000 lb/h of 150 psig condensate flashed at 30 psig,
+    # make-up at 70 degF, 8,760 h, steam at $10/MMBtu: $51,156 a year (0.5 %: see the API test).
+    recovery = client.get(
+        "/calculator",
+        params={
+            "calc": "flash_recovery",
+            "units": "us",
+            "currency": "USD",
+            "fr_load": "5000",
+            "fr_inlet": "150",
+            "fr_vessel": "30",
+            "fr_hours": "8760",
+            "fr_makeup": "70",
+            "fr_price": "10",
+        },
+    )
+    assert recovery.status_code == 200, recovery.text
+    assert recovery.context["result"].annual_value == pytest.approx(51_156.0, rel=0.005)  # type: ignore[attr-defined]
+    assert "discharge against its pressure" in recovery.text
+    # Gauge pressures read against a high site's atmosphere boil lower.
+    sea = client.get("/calculator", params={"calc": "saturation", "pressure": "0"})
+    high = client.get(
+        "/calculator", params={"calc": "saturation", "pressure": "0", "atmosphere": "89.87"}
+    )
+    assert high.context["result"].temperature_c < sea.context["result"].temperature_c - 3.0  # type: ignore[attr-defined]
+    bad = client.get(
+        "/calculator", params={"calc": "saturation", "pressure": "0", "atmosphere": "300"}
+    )
+    assert bad.status_code == 422
+    assert "atmospheric pressure lies above" in bad.text
+    above = client.get(
+        "/calculator",
+        params={
+            "calc": "flash_recovery",
+            "fr_load": "100",
+            "fr_inlet": "100",
+            "fr_vessel": "200",
+            "fr_hours": "8000",
+        },
+    )
+    assert above.status_code == 422
+    assert "fr_vessel" in above.context["form"].errors  # type: ignore[attr-defined]
 
 
 def test_the_import_page_previews_then_confirms(api: TestClient, demo: dict[str, Any]) -> None:

@@ -376,6 +376,41 @@ class FlashRecoveryIn(SiteInput):
             raise ValueError("give either steam_energy_price_per_gj or fuel_price_per_gj, not both")
         return value
 
+    def answer(self) -> "FlashRecoveryOut":
+        """The recovery and its value, as the API and the calculator page give it."""
+        inlet_pressure_kpa_abs = self.absolute(self.inlet_pressure_kpa_g)
+        economics = Economics(
+            boiler_efficiency=self.boiler_efficiency,
+            makeup_water_temperature_c=self.makeup_water_temperature_c,
+            co2_kg_per_gj_fuel=self.co2_kg_per_gj_fuel,
+        )
+        recovery = flash_recovery(
+            condensate_load_kg_h=self.condensate_load_kg_h,
+            inlet_pressure_kpa_abs=inlet_pressure_kpa_abs,
+            vessel_pressure_kpa_abs=self.absolute(self.vessel_pressure_kpa_g),
+            hours_per_year=self.hours_per_year,
+            makeup_water_enthalpy_kj_kg=economics.makeup_water_enthalpy_kj_kg,
+            condensate_temperature_c=condensate_temperature_c(
+                None, inlet_pressure_kpa_abs, self.inlet_temperature_c
+            ),
+        )
+        fuel_gj = recovery.annual_energy_gj / self.boiler_efficiency
+        value = None
+        if self.steam_energy_price_per_gj is not None:
+            value = recovery.annual_energy_gj * self.steam_energy_price_per_gj
+        elif self.fuel_price_per_gj is not None:
+            value = fuel_gj * self.fuel_price_per_gj
+        return FlashRecoveryOut(
+            flash_fraction=recovery.flash_fraction,
+            recovered_steam_kg_h=recovery.recovered_steam_kg_h,
+            annual_recovered_steam_t=recovery.annual_recovered_steam_t,
+            annual_energy_gj=recovery.annual_energy_gj,
+            annual_fuel_gj=fuel_gj,
+            annual_value=value,
+            annual_co2_t=fuel_gj * self.co2_kg_per_gj_fuel / 1000.0,
+            caution=FLASH_RECOVERY_CAUTION,
+        )
+
 
 class FlashRecoveryOut(BaseModel):
     flash_fraction: float = Field(description="kg of flash steam per kg of condensate")
@@ -399,35 +434,4 @@ FLASH_RECOVERY_CAUTION = (
 def flash_recovery_endpoint(body: FlashRecoveryIn) -> FlashRecoveryOut:
     """Yield by the mixing rule at the vessel's pressure; value as live steam displaced
     from make-up water (US DOE Steam Tip Sheet #12)."""
-    inlet_pressure_kpa_abs = body.absolute(body.inlet_pressure_kpa_g)
-    economics = Economics(
-        boiler_efficiency=body.boiler_efficiency,
-        makeup_water_temperature_c=body.makeup_water_temperature_c,
-        co2_kg_per_gj_fuel=body.co2_kg_per_gj_fuel,
-    )
-    recovery = flash_recovery(
-        condensate_load_kg_h=body.condensate_load_kg_h,
-        inlet_pressure_kpa_abs=inlet_pressure_kpa_abs,
-        vessel_pressure_kpa_abs=body.absolute(body.vessel_pressure_kpa_g),
-        hours_per_year=body.hours_per_year,
-        makeup_water_enthalpy_kj_kg=economics.makeup_water_enthalpy_kj_kg,
-        condensate_temperature_c=condensate_temperature_c(
-            None, inlet_pressure_kpa_abs, body.inlet_temperature_c
-        ),
-    )
-    fuel_gj = recovery.annual_energy_gj / body.boiler_efficiency
-    value = None
-    if body.steam_energy_price_per_gj is not None:
-        value = recovery.annual_energy_gj * body.steam_energy_price_per_gj
-    elif body.fuel_price_per_gj is not None:
-        value = fuel_gj * body.fuel_price_per_gj
-    return FlashRecoveryOut(
-        flash_fraction=recovery.flash_fraction,
-        recovered_steam_kg_h=recovery.recovered_steam_kg_h,
-        annual_recovered_steam_t=recovery.annual_recovered_steam_t,
-        annual_energy_gj=recovery.annual_energy_gj,
-        annual_fuel_gj=fuel_gj,
-        annual_value=value,
-        annual_co2_t=fuel_gj * body.co2_kg_per_gj_fuel / 1000.0,
-        caution=FLASH_RECOVERY_CAUTION,
-    )
+    return body.answer()

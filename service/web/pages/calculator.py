@@ -1,22 +1,24 @@
-"""The steam calculator: saturation, the state of a mixture, flash, and one trap's loss,
-for an engineer checking a number by hand. Nothing is stored, so every form is a GET."""
+"""The steam calculator: saturation, the state of a mixture, flash, flash recovery and
+one trap's loss, for an engineer checking a number by hand. Nothing is stored, so every
+form is a GET. Gauge pressures are read against the atmosphere given with them (a
+site's, when it links here), else one standard atmosphere."""
 
-from typing import Any
+from typing import Any, TypeVar
 
 from fastapi import APIRouter, Depends, Request
 from fastapi.responses import HTMLResponse
-from pydantic import ValidationError
+from pydantic import BaseModel, ValidationError
 
 from service.accounts.roles import Permission
 from service.physics import steam_tables
 from service.physics.conditions import TrapCondition
 from service.physics.flash import flash_of_condensate
-from service.physics.pressure import absolute_from_gauge
+from service.physics.pressure import STANDARD_ATMOSPHERE_KPA, absolute_from_gauge
 from service.physics.states import state_from_enthalpy, state_from_quality, state_from_temperature
 from service.physics.trap_loss import CondensateDestination, trap_loss
 from service.physics.units import Dimension, UnitSystem
 from service.web.access import require
-from service.web.api.calc import TrapLossIn
+from service.web.api.calc import FlashRecoveryIn, TrapLossIn
 from service.web.display import Display
 from service.web.forms import Form
 from service.web.pages.templating import page
@@ -30,11 +32,29 @@ def _required(form: Form, name: str, value: float | None) -> float | None:
     return value
 
 
+# 50 kPa is the standard atmosphere near 5 500 m; 110 kPa is above any sea-level high.
+ATMOSPHERE_RANGE_KPA = (50.0, 110.0)
+
+
+def _atmosphere_kpa(form: Form) -> float:
+    """The atmosphere the form's gauge pressures are read against [kPa]."""
+    typed = form.number("atmosphere")
+    if typed is None:
+        return STANDARD_ATMOSPHERE_KPA
+    low, high = ATMOSPHERE_RANGE_KPA
+    if not low < typed <= high:
+        form.errors["atmosphere"] = (
+            f"an atmospheric pressure lies above {low:g} and up to {high:g} kPa"
+        )
+    return typed
+
+
 def _saturation(form: Form, show: Display) -> Any:
     pressure = _required(form, "pressure", form.number("pressure", show, Dimension.PRESSURE))
-    if pressure is None:
+    atmosphere = _atmosphere_kpa(form)
+    if pressure is None or not form.ok:
         return None
-    return steam_tables.saturation_at_pressure(absolute_from_gauge(pressure))
+    return steam_tables.saturation_at_pressure(absolute_from_gauge(pressure, atmosphere))
 
 
 def _state(form: Form, show: Display) -> Any:
@@ -45,9 +65,10 @@ def _state(form: Form, show: Display) -> Any:
         "value",
         form.number("value", show, Dimension.TEMPERATURE if given == "temperature" else None),
     )
-    if pressure is None or value is None:
+    atmosphere = _atmosphere_kpa(form)
+    if pressure is None or value is None or not form.ok:
         return None
-    absolute = absolute_from_gauge(pressure)
+    absolute = absolute_from_gauge(pressure, atmosphere)
     if given == "temperature":
         return state_from_temperature(absolute, value)
     if given == "enthalpy":
@@ -58,9 +79,13 @@ def _state(form: Form, show: Display) -> Any:
 def _flash(form: Form, show: Display) -> Any:
     inlet = _required(form, "inlet", form.number("inlet", show, Dimension.PRESSURE))
     outlet = _required(form, "return", form.number("return", show, Dimension.PRESSURE))
-    if inlet is None or outlet is None:
+    temperature = form.number("flash_temp", show, Dimension.TEMPERATURE)
+    atmosphere = _atmosphere_kpa(form)
+    if inlet is None or outlet is None or not form.ok:
         return None
-    return flash_of_condensate(absolute_from_gauge(inlet), absolute_from_gauge(outlet))
+    return flash_of_condensate(
+        absolute_from_gauge(inlet, atmosphere), absolute_from_gauge(outlet, atmosphere), temperature
+    )
 
 
 # The trap form's fields, by the trap-loss request's names.
@@ -73,6 +98,9 @@ TRAP_FIELDS = {
     "condensate_load_kg_h": "load",
     "condition": "condition",
     "condensate_destination": "destination",
+    "inlet_temperature_c": "inlet_temp",
+    "steam_temperature_c": "steam_temp",
+    "atmospheric_pressure_kpa": "atmosphere",
 }
 
 
@@ -87,20 +115,66 @@ def _trap(form: Form, show: Display) -> Any:
         "condensate_load_kg_h": form.number("load", show, Dimension.MASS_FLOW),
         "condition": form.text("condition") or "blow_through",
         "condensate_destination": form.text("destination") or "closed_return",
+        "inlet_temperature_c": form.number("inlet_temp", show, Dimension.TEMPERATURE),
+        "steam_temperature_c": form.number("steam_temp", show, Dimension.TEMPERATURE),
+        "atmospheric_pressure_kpa": form.number("atmosphere"),
     }
+    request = _validated(form, TrapLossIn, typed, TRAP_FIELDS)
+    return None if request is None else trap_loss(request.trap_service(), request.economics())
+
+
+# The flash-recovery form's fields, by the request's names.
+RECOVERY_FIELDS = {
+    "condensate_load_kg_h": "fr_load",
+    "inlet_pressure_kpa_g": "fr_inlet",
+    "vessel_pressure_kpa_g": "fr_vessel",
+    "hours_per_year": "fr_hours",
+    "steam_energy_price_per_gj": "fr_price",
+    "makeup_water_temperature_c": "fr_makeup",
+    "atmospheric_pressure_kpa": "atmosphere",
+}
+
+
+def _flash_recovery(form: Form, show: Display) -> Any:
+    """Flash recovered at a vessel, priced exactly as POST /api/v1/calc/flash-recovery."""
+    typed = {
+        "condensate_load_kg_h": form.number("fr_load", show, Dimension.MASS_FLOW),
+        "inlet_pressure_kpa_g": form.number("fr_inlet", show, Dimension.PRESSURE),
+        "vessel_pressure_kpa_g": form.number("fr_vessel", show, Dimension.PRESSURE),
+        "hours_per_year": form.number("fr_hours"),
+        "steam_energy_price_per_gj": form.number("fr_price", show, Dimension.PRICE_PER_ENERGY),
+        "makeup_water_temperature_c": form.number("fr_makeup", show, Dimension.TEMPERATURE),
+        "atmospheric_pressure_kpa": form.number("atmosphere"),
+    }
+    request = _validated(form, FlashRecoveryIn, typed, RECOVERY_FIELDS)
+    return None if request is None else request.answer()
+
+
+Request_ = TypeVar("Request_", bound=BaseModel)
+
+
+def _validated(
+    form: Form, model: type[Request_], typed: dict[str, Any], fields: dict[str, str]
+) -> Request_ | None:
+    """The request a form's numbers make, or None with the errors beside its fields."""
     if not form.ok:
         return None
     try:
-        request = TrapLossIn.model_validate(
+        return model.model_validate(
             {name: value for name, value in typed.items() if value is not None}
         )
     except ValidationError as error:
-        form.absorb(error, TRAP_FIELDS)
+        form.absorb(error, fields)
         return None
-    return trap_loss(request.trap_service(), request.economics())
 
 
-CALCULATIONS = {"saturation": _saturation, "state": _state, "flash": _flash, "trap": _trap}
+CALCULATIONS = {
+    "saturation": _saturation,
+    "state": _state,
+    "flash": _flash,
+    "trap": _trap,
+    "flash_recovery": _flash_recovery,
+}
 
 
 @router.get("/calculator", response_class=HTMLResponse)
@@ -128,6 +202,7 @@ def calculator(request: Request) -> HTMLResponse:
         result=result,
         show=show,
         system=system,
+        atmosphere=typed.get("atmosphere", ""),
         conditions=list(TrapCondition),
         destinations=list(CondensateDestination),
         status_code=status,

@@ -9,6 +9,7 @@ from pydantic import ValidationError
 from sqlalchemy import select
 from sqlalchemy.orm import Session
 
+from service.physics.annual import ClosedReturnPricing, HeatingValue
 from service.physics.conditions import TrapCondition
 from service.physics.units import Dimension, UnitSystem
 from service.reports.compare import compare_surveys
@@ -258,10 +259,23 @@ SETTINGS_FIELDS: list[tuple[str, Dimension | None, str, str]] = [
         "Cold water that replaces what is lost. Default 15 °C (common practice).",
     ),
     (
+        "sewer_cost_per_tonne",
+        Dimension.PRICE_PER_MASS,
+        "Sewer charge on drained condensate",
+        "Sewer or trade-effluent charge per tonne run to drain, on either basis. Default 0.",
+    ),
+    (
         "co2_kg_per_gj_fuel",
         Dimension.EMISSION_FACTOR,
         "CO₂ per unit of fuel energy",
         "Natural gas 56.1 kg/GJ, IPCC 2006 Guidelines vol. 2 table 2.2 (LHV basis).",
+    ),
+    (
+        "net_to_gross_ratio",
+        None,
+        "Net over gross heating value (0.8 to 1)",
+        "Converts a CO₂ factor quoted on the other heating-value basis. Natural gas about "
+        "0.9 (IPCC 2006 vol. 2 ch. 1, from memory).",
     ),
     (
         "hours_per_year",
@@ -291,6 +305,27 @@ SETTINGS_FIELDS: list[tuple[str, Dimension | None, str, str]] = [
         "Leave blank to take it from the elevation (or 101.325 kPa).",
     ),
 ]
+# (field, label, its words, help): the settings chosen from a list.
+SETTINGS_CHOICES: list[tuple[str, str, list[str], str]] = [
+    (
+        "fuel_heating_value",
+        "Heating value of the boiler efficiency and fuel price",
+        list(HeatingValue),
+        "Say which basis your efficiency and fuel price are quoted on.",
+    ),
+    (
+        "co2_factor_heating_value",
+        "Heating value of the CO₂ factor",
+        list(HeatingValue),
+        "IPCC factors are net (LHV); US EPA factors are gross (HHV).",
+    ),
+    (
+        "closed_return_pricing",
+        "Live steam blowing into a closed return",
+        list(ClosedReturnPricing),
+        "The water comes back: by default only the heat the return does not bring back is lost.",
+    ),
+]
 LOSS_CONDITIONS = (TrapCondition.LEAKING, TrapCondition.BLOW_THROUGH, TrapCondition.RAPID_CYCLING)
 
 
@@ -302,6 +337,8 @@ def _settings_typed(site: Site, show: Display) -> dict[str, str]:
         "unit_system": site.unit_system.value,
         "cost_basis": site.cost_basis.value,
     }
+    for name, _, _, _ in SETTINGS_CHOICES:
+        typed[name] = str(getattr(site, name))
     for name, dimension, _, _ in SETTINGS_FIELDS:
         value = getattr(site, name)
         if name == "atmospheric_pressure_kpa" and site.elevation_m is not None:
@@ -326,6 +363,8 @@ def _settings_changes(form: Form, site: Site, show: Display) -> dict[str, Any]:
         "unit_system": form.text("unit_system"),
         "cost_basis": form.text("cost_basis"),
     }
+    for name, _, _, _ in SETTINGS_CHOICES:
+        changes[name] = form.text(name)
     for name, dimension, _, _ in SETTINGS_FIELDS:
         changes[name] = form.number(name, show, dimension)
     changes["loss_factors"] = {
@@ -351,6 +390,7 @@ def _settings_page(
         form=form,
         saved=saved,
         fields=SETTINGS_FIELDS,
+        choices=SETTINGS_CHOICES,
         loss_conditions=LOSS_CONDITIONS,
         unit_systems=list(UnitSystem),
         cost_bases=list(CostBasis),
