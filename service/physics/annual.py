@@ -73,7 +73,9 @@ class Economics:
     fuel_heating_value: HeatingValue = HeatingValue.LHV  # of boiler efficiency, fuel price
     co2_factor_heating_value: HeatingValue = HeatingValue.LHV
     net_to_gross_ratio: float = DEFAULT_NET_TO_GROSS_RATIO
-    sewer_cost_per_tonne: float = 0.0  # charged on condensate run to drain
+    sewer_cost_per_tonne: float = 0.0  # charged on water run to drain
+    # Hot drains cooled with make-up water to this temperature before the sewer [degC]
+    drain_temperature_limit_c: float | None = None
     closed_return_pricing: ClosedReturnPricing = ClosedReturnPricing.HEAT_NOT_RECOVERED
 
     def __post_init__(self) -> None:

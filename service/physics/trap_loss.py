@@ -40,8 +40,9 @@ from service.physics.conditions import (
     discharges_condensate,
     wastes_live_steam,
 )
-from service.physics.flash import flash_of_condensate
+from service.physics.flash import Flash, flash_of_condensate
 from service.physics.orifice import FlowMethod, FlowRegime, live_steam, steam_discharge
+from service.physics.pressure import STANDARD_ATMOSPHERE_KPA
 from service.physics.spread import Spread
 
 # Cd of a trap orifice. 0.7 lies between the sharp-edged orifice's 0.6 (one published
@@ -239,6 +240,38 @@ def trap_loss(service: TrapService, economics: Economics) -> TrapLoss:
     )
 
 
+def drain_charges(drained_t: float, flash: Flash, economics: Economics) -> float:
+    """Money only, on top of the water and heat: the sewer charge on the liquid that
+    reaches the sewer, and the make-up water that cools a hot drain to the site's limit.
+
+    The flash leaves by the drain's vent; the liquid, (1 - x) of the load at hf(p_return),
+    is cooled by mixing with make-up water at h_mw to h_limit: m_cool = m (h_hot -
+    h_limit) / (h_limit - h_mw), an energy balance. Cooling water is priced at the
+    water-and-treatment cost plus the sewer charge (it is bought, then discharged).
+
+    >>> flash = flash_of_condensate(1101.325, 101.325)
+    >>> round(drain_charges(100.0, flash, Economics(sewer_cost_per_tonne=2.0)), 2)
+    167.88
+    """
+    liquid_t = drained_t * (1.0 - flash.flash_fraction)
+    charges = liquid_t * economics.sewer_cost_per_tonne
+    limit_c = economics.drain_temperature_limit_c
+    if limit_c is None or limit_c >= flash.return_saturation_temperature_c:
+        return charges
+    limit = steam_tables.properties_at_pressure_temperature(STANDARD_ATMOSPHERE_KPA, limit_c)
+    makeup = economics.makeup_water_enthalpy_kj_kg
+    if limit.enthalpy_kj_kg <= makeup:
+        raise ValueError(
+            f"a drain cannot be cooled to {limit_c:g} °C with make-up water at "
+            f"{economics.makeup_water_temperature_c:g} °C"
+        )
+    cooling_t = (
+        liquid_t * (flash.return_hf_kj_kg - limit.enthalpy_kj_kg) / (limit.enthalpy_kj_kg - makeup)
+    )
+    water_cost = economics.water_and_treatment_cost_per_tonne + economics.sewer_cost_per_tonne
+    return charges + cooling_t * water_cost
+
+
 def live_steam_enthalpy_kj_kg(service: TrapService) -> float:
     """Enthalpy [kJ/kg] of the live steam at the trap: hg(p1), or h(p1, T) superheated.
 
@@ -294,6 +327,6 @@ def condensate_loss(service: TrapService, economics: Economics) -> CondensateLos
             0.0,
             nothing,
             drain_kg_h,
-            drained.plus_cost(drained.mass_t * economics.sewer_cost_per_tonne),
+            drained.plus_cost(drain_charges(drained.mass_t, flash, economics)),
         )
     return CondensateLoss(flash.flash_fraction, 0.0, nothing, 0.0, nothing)

@@ -83,6 +83,7 @@ def economics_of(site: Site) -> Economics:
         co2_factor_heating_value=site.co2_factor_heating_value,
         net_to_gross_ratio=site.net_to_gross_ratio,
         sewer_cost_per_tonne=site.sewer_cost_per_tonne,
+        drain_temperature_limit_c=site.drain_temperature_limit_c,
         closed_return_pricing=site.closed_return_pricing,
     )
 

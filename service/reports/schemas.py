@@ -7,7 +7,7 @@ API can never disagree about a number.
 import datetime as dt
 from typing import Any
 
-from pydantic import BaseModel, Field
+from pydantic import BaseModel, ConfigDict, Field
 
 from service.physics.annual import YearlyLoss
 from service.physics.conditions import FindingCategory, TrapCondition
@@ -212,6 +212,25 @@ class PricedTrapOut(BaseModel):
             repaired_on=priced.repaired_on,
             risk=loss.risk,
         )
+
+
+class FlashRecoveryWhatIfOut(BaseModel):
+    """A flash vessel for the survey's traps that vent their flash, in one area or all."""
+
+    model_config = ConfigDict(from_attributes=True)
+
+    vessel_pressure_kpa_g: float
+    area_name: str | None = Field(description="Null: every area")
+    traps: int = Field(description="Venting flash, in the group, above the vessel's pressure")
+    traps_below_vessel: int = Field(description="Venting flash, but not above its pressure")
+    condensate_load_kg_h: float
+    recovered_steam_kg_h: float
+    annual_recovered_steam_t: float
+    annual_energy_gj: float = Field(description="Heat of the live steam it displaces")
+    annual_fuel_gj: float
+    annual_value: float | None
+    annual_co2_t: float
+    caution: str
 
 
 class SurveyRef(BaseModel):

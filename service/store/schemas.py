@@ -88,6 +88,7 @@ Atmosphere = Annotated[float, Field(gt=50.0, le=110.0)]
 Currency = Annotated[str, StringConstraints(pattern=r"^[A-Z]{3}$")]
 SurfaceTemperature = Annotated[float, Field(ge=-60.0, le=450.0)]
 SteamTemperature = Annotated[float, Field(ge=0.01, le=800.0)]  # IF97 region 2's range
+DrainTemperatureLimit = Annotated[float, Field(ge=20.0, le=99.0)]  # a sewer's discharge limit
 NetToGrossRatio = Annotated[float, Field(ge=0.8, le=1.0)]  # every common fuel lies within
 RoutePosition = Annotated[int, Field(ge=0, le=10_000_000)]
 RecordId = Annotated[int, Field(ge=1, le=2_147_483_647)]  # 32-bit ids on every database
@@ -167,6 +168,7 @@ class SiteCreate(StrictInput):
     co2_factor_heating_value: HeatingValue = HeatingValue.LHV
     net_to_gross_ratio: NetToGrossRatio = DEFAULT_NET_TO_GROSS_RATIO
     sewer_cost_per_tonne: Money = 0.0
+    drain_temperature_limit_c: DrainTemperatureLimit | None = None
     closed_return_pricing: ClosedReturnPricing = ClosedReturnPricing.HEAT_NOT_RECOVERED
     hours_per_year: HoursPerYear = DEFAULT_HOURS_PER_YEAR
     discharge_coefficient: DischargeCoefficient = DEFAULT_DISCHARGE_COEFFICIENT.typical
@@ -225,6 +227,7 @@ class SiteUpdate(StrictInput):
     co2_factor_heating_value: HeatingValue | None = None
     net_to_gross_ratio: NetToGrossRatio | None = None
     sewer_cost_per_tonne: Money | None = None
+    drain_temperature_limit_c: DrainTemperatureLimit | None = None
     closed_return_pricing: ClosedReturnPricing | None = None
     hours_per_year: HoursPerYear | None = None
     discharge_coefficient: DischargeCoefficient | None = None
@@ -253,6 +256,7 @@ class SiteOut(StoredOut):
     co2_factor_heating_value: HeatingValue
     net_to_gross_ratio: float
     sewer_cost_per_tonne: float
+    drain_temperature_limit_c: float | None
     closed_return_pricing: ClosedReturnPricing
     hours_per_year: float
     discharge_coefficient: float

@@ -256,7 +256,9 @@ def test_a_sewer_charge_adds_to_condensate_run_to_drain_only() -> None:
     }
     with_charge = trap_loss(_trap(**drained), sewer).condensate.condensate_to_drain
     without = trap_loss(_trap(**drained), plain).condensate.condensate_to_drain
-    assert with_charge.cost == pytest.approx(without.cost + 1.5 * without.mass_t)  # type: ignore[operator]
+    # The flash leaves by the drain's vent: the sewer takes the liquid, (1 - x) of it.
+    liquid_t = without.mass_t * (1.0 - flash_of_condensate(INLET, RETURN).flash_fraction)
+    assert with_charge.cost == pytest.approx(without.cost + 1.5 * liquid_t)  # type: ignore[operator]
     assert with_charge.co2_t == without.co2_t
 
 
@@ -273,3 +275,32 @@ def test_a_vented_receiver_above_atmosphere_is_refused(
         require_destination_fits_return(destination, return_kpa_g)
     require_destination_fits_return(destination, 2.0)
     require_destination_fits_return(CondensateDestination.CLOSED_RETURN, return_kpa_g)
+
+
+def test_a_hot_drain_is_cooled_with_make_up_water_before_the_sewer() -> None:
+    # Energy balance by hand (IAPWS R7-97(2012) enthalpies): 50 kg/h of condensate from
+    # 1000 kPa(g) flashes at the drain (x = 16.06 %); the rest, at hf(101.325 kPa) =
+    # 419.1 kJ/kg, is mixed with 15 degC make-up water (63.0 kJ/kg) down to 60 degC
+    # (251.2 kJ/kg): (419.1 - 251.2) / (251.2 - 63.0) = 0.892 kg of cooling water per kg.
+    from service.physics import steam_tables
+    from service.physics.pressure import STANDARD_ATMOSPHERE_KPA
+
+    drained = {
+        "condition": TrapCondition.WORKING,
+        "condensate_load_kg_h": 50.0,
+        "destination": CondensateDestination.DRAIN,
+    }
+    prices = {"fuel_price_per_gj": 10.0, "water_and_treatment_cost_per_tonne": 2.0}
+    plain = trap_loss(_trap(**drained), Economics(**prices)).condensate.condensate_to_drain
+    cooled = trap_loss(
+        _trap(**drained), Economics(**prices, drain_temperature_limit_c=60.0)
+    ).condensate.condensate_to_drain
+    flash = flash_of_condensate(INLET, RETURN).flash_fraction
+    hot = steam_tables.saturation_at_pressure(RETURN).hf_kj_kg
+    limit = steam_tables.properties_at_pressure_temperature(STANDARD_ATMOSPHERE_KPA, 60.0)
+    makeup = Economics().makeup_water_enthalpy_kj_kg
+    per_kg = (hot - limit.enthalpy_kj_kg) / (limit.enthalpy_kj_kg - makeup)
+    assert per_kg == pytest.approx(0.892, abs=0.002)
+    cooling_t = plain.mass_t * (1.0 - flash) * per_kg
+    assert cooled.cost == pytest.approx(plain.cost + cooling_t * 2.0)  # type: ignore[operator]
+    assert cooled.energy_gj == plain.energy_gj

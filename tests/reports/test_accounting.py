@@ -175,3 +175,43 @@ def test_a_fair_comparison_over_traps_tested_in_both_rounds(store: Database) -> 
     assert comparison.cost_change == pytest.approx(-blowing_cost)
     low, high = comparison.cost_change_range
     assert low <= comparison.cost_change <= high < 0.0
+
+
+def test_a_flash_vessel_what_if_over_the_traps_that_vent_their_flash(store: Database) -> None:
+    # The mixing rule per trap (US DOE Steam Tip Sheet #12's method): each vented trap's
+    # condensate flashed at the vessel; traps to drain or to a closed return are not fed
+    # to it, nor those whose inlet is not above the vessel's pressure.
+    from service.physics.flash import flash_recovery
+    from service.reports.opportunities import flash_recovery_what_if
+    from service.reports.pricing import SitePricing
+
+    day = dt.date(2026, 3, 2)
+    with store.writing() as session:
+        site = _site(session)
+        vented = [_trap(session, site, tag, "vented_receiver") for tag in ("V1", "V2")]
+        drained = _trap(session, site, "D1", "drain")
+        survey = _survey(session, site, "Spring", day)
+        for trap in [*vented, drained]:
+            _found(session, survey, trap, "working", day)
+        pricing = SitePricing.of(site)
+        summary = site_summary(session=session, site=site, survey=survey, pricing=pricing)
+        what_if = flash_recovery_what_if(
+            summary=summary, pricing=pricing, vessel_pressure_kpa_g=200.0
+        )
+        too_high = flash_recovery_what_if(
+            summary=summary, pricing=pricing, vessel_pressure_kpa_g=1000.0
+        )
+        makeup = pricing.economics.makeup_water_enthalpy_kj_kg
+        atmosphere = site.atmospheric_pressure_kpa
+    one = flash_recovery(
+        condensate_load_kg_h=40.0,
+        inlet_pressure_kpa_abs=1000.0 + atmosphere,
+        vessel_pressure_kpa_abs=200.0 + atmosphere,
+        hours_per_year=8760.0,
+        makeup_water_enthalpy_kj_kg=makeup,
+    )
+    assert (what_if.traps, what_if.traps_below_vessel) == (2, 0)
+    assert what_if.recovered_steam_kg_h == pytest.approx(2 * one.recovered_steam_kg_h)
+    # Fuel basis: heat over the boiler efficiency at the fuel price.
+    assert what_if.annual_value == pytest.approx(2 * one.annual_energy_gj / 0.8 * 10.0)
+    assert (too_high.traps, too_high.traps_below_vessel) == (0, 2)

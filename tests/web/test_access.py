@@ -45,6 +45,7 @@ TABLE: dict[tuple[str, str], tuple[str, bool, int]] = {
     ("DELETE", "/api/v1/sites/{site_id}"): (A, True, 409),
     ("GET", "/api/v1/sites/{site_id}/summary"): (R, True, 200),
     ("GET", "/api/v1/sites/{site_id}/compare"): (R, True, 200),
+    ("GET", "/api/v1/sites/{site_id}/flash-recovery"): (R, True, 422),
     ("POST", "/api/v1/sites/{site_id}/areas"): (M, True, 422),
     ("GET", "/api/v1/sites/{site_id}/areas"): (R, True, 200),
     ("GET", "/api/v1/areas/{area_id}"): (R, True, 200),

@@ -524,3 +524,34 @@ def test_the_sites_page_shows_each_sites_latest_headline(
     assert show.money(summary["annual_cost"]) in listing.text
     assert "Empty Works" in listing.text
     assert "No survey yet." in listing.text
+
+
+def test_the_summarys_flash_vessel_what_if_equals_the_api(
+    api: TestClient, demo: dict[str, Any]
+) -> None:
+    site_id = demo["site"]["id"]
+    area = "Boiler house and HP header"
+    page = api.get(f"/sites/{site_id}/summary", params={"vessel": "150", "area": area})
+    assert page.status_code == 200
+    shown = page.context["recovery"]  # type: ignore[attr-defined]
+    from_api = api.get(
+        f"/api/v1/sites/{site_id}/flash-recovery",
+        params={"vessel_pressure_kpa_g": 150, "area": area},
+    ).json()
+    assert shown.model_dump(mode="json") == from_api
+    assert from_api["traps"] > 0
+    assert (
+        0
+        < from_api["annual_value"]
+        < api.get(f"/api/v1/sites/{site_id}/summary").json()["totals"]["annual_flash_cost"]
+    )
+    assert "discharge against its pressure" in page.text
+    bad = api.get(f"/sites/{site_id}/summary", params={"vessel": "lots"})
+    assert bad.status_code == 422
+    assert "is not a number" in bad.text
+    assert 'value="lots"' in bad.text
+    off_line = api.get(
+        f"/api/v1/sites/{site_id}/flash-recovery", params={"vessel_pressure_kpa_g": 30000}
+    )
+    assert off_line.status_code == 422
+    assert "flash-what-if" not in api.get(f"/sites/{site_id}/report").text

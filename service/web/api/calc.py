@@ -38,11 +38,13 @@ from service.physics.trap_loss import (
     loss_factor_for,
     trap_loss,
 )
+from service.reports.opportunities import FLASH_RECOVERY_CAUTION
 from service.reports.pricing import condensate_temperature_c
 from service.store.schemas import (
     Co2Factor,
     CondensateLoad,
     DischargeCoefficient,
+    DrainTemperatureLimit,
     Efficiency,
     Fraction,
     HoursPerYear,
@@ -139,6 +141,7 @@ class TrapLossIn(SiteInput):
     fuel_price_per_gj: Money | None = None
     water_and_treatment_cost_per_tonne: Money = 0.0
     sewer_cost_per_tonne: Money = 0.0
+    drain_temperature_limit_c: DrainTemperatureLimit | None = None
     boiler_efficiency: Efficiency = DEFAULT_BOILER_EFFICIENCY
     makeup_water_temperature_c: MakeupTemperature = DEFAULT_MAKEUP_WATER_TEMPERATURE_C
     co2_kg_per_gj_fuel: Co2Factor = DEFAULT_CO2_KG_PER_GJ_FUEL
@@ -227,6 +230,7 @@ class TrapLossIn(SiteInput):
             co2_factor_heating_value=self.co2_factor_heating_value,
             net_to_gross_ratio=self.net_to_gross_ratio,
             sewer_cost_per_tonne=self.sewer_cost_per_tonne,
+            drain_temperature_limit_c=self.drain_temperature_limit_c,
             closed_return_pricing=self.closed_return_pricing,
         )
 
@@ -421,13 +425,6 @@ class FlashRecoveryOut(BaseModel):
     annual_value: float | None
     annual_co2_t: float = Field(description="CO2 of that fuel")
     caution: str
-
-
-FLASH_RECOVERY_CAUTION = (
-    "An estimate. The traps feeding the vessel must discharge against its pressure (back "
-    "pressure cuts their capacity), and a steady low-pressure load must take the steam. "
-    "A flash vessel is a pressure vessel: design, relief and inspection follow local codes."
-)
 
 
 @router.post("/flash-recovery", summary="Steam a flash vessel recovers, and its yearly value")

@@ -6,8 +6,12 @@ from fastapi import APIRouter, Query, Response
 from sqlalchemy import select
 from sqlalchemy.orm import Session
 
+from service.physics.pressure import STANDARD_ATMOSPHERE_KPA
+from service.physics.steam_tables import CRITICAL_PRESSURE_KPA
 from service.reports.compare import compare_surveys
-from service.reports.schemas import ComparisonOut, SummaryOut
+from service.reports.opportunities import flash_recovery_what_if
+from service.reports.pricing import SitePricing
+from service.reports.schemas import ComparisonOut, FlashRecoveryWhatIfOut, SummaryOut
 from service.reports.summary import site_summary
 from service.store import register
 from service.store.errors import NotFoundError
@@ -17,6 +21,7 @@ from service.store.schemas import SiteCreate, SiteOut, SiteUpdate
 from service.store.surveys import latest_survey
 from service.web.access import Administering, Managing, Reading
 from service.web.dependencies import MAX_RECORD_ID, Db, PageOut, PagingDep, RecordId, RecordIdQuery
+from service.web.errors import reported_against
 
 router = APIRouter(tags=["sites"])
 
@@ -86,6 +91,45 @@ def summary(
             else survey_of_site(session, site, survey_id)
         )
         return SummaryOut.of(site_summary(session=session, site=site, survey=survey))
+
+
+@router.get(
+    "/sites/{site_id}/flash-recovery", summary="What a flash vessel would recover from a survey"
+)
+def flash_recovery(
+    site_id: RecordId,
+    db: Db,
+    viewer: Reading,
+    vessel_pressure_kpa_g: Annotated[
+        float,
+        Query(ge=-STANDARD_ATMOSPHERE_KPA, le=CRITICAL_PRESSURE_KPA, description="kPa(g)"),
+    ],
+    area: Annotated[str | None, Query(max_length=120, description="Default: every area")] = None,
+    survey_id: Annotated[
+        int | None,
+        Query(ge=1, le=MAX_RECORD_ID, description="Default: the latest survey"),
+    ] = None,
+) -> FlashRecoveryWhatIfOut:
+    """The survey's traps that vent their flash, in the area or all, their condensate
+    flashed in a vessel at that pressure: yield by the mixing rule, value on the site's
+    cost basis as live steam displaced from make-up water."""
+    with db.reading() as session:
+        site = viewer.get(session, Site, site_id)
+        survey = (
+            latest_survey(session=session, site=site)
+            if survey_id is None
+            else survey_of_site(session, site, survey_id)
+        )
+        pricing = SitePricing.of(site)
+        summary = site_summary(session=session, site=site, survey=survey, pricing=pricing)
+        with reported_against("query", "vessel_pressure_kpa_g", typed=vessel_pressure_kpa_g):
+            what_if = flash_recovery_what_if(
+                summary=summary,
+                pricing=pricing,
+                vessel_pressure_kpa_g=vessel_pressure_kpa_g,
+                area_name=area,
+            )
+        return FlashRecoveryWhatIfOut.model_validate(what_if)
 
 
 @router.get("/sites/{site_id}/compare", summary="What changed from one survey to another")

@@ -14,9 +14,10 @@ from service.physics.conditions import TrapCondition
 from service.physics.units import Dimension, UnitSystem
 from service.reports.compare import compare_surveys
 from service.reports.exports import repair_list_csv, repair_list_table, xlsx_bytes
+from service.reports.opportunities import flash_recovery_what_if
 from service.reports.pricing import SitePricing
-from service.reports.schemas import ComparisonOut, SummaryOut
-from service.reports.summary import site_summary
+from service.reports.schemas import ComparisonOut, FlashRecoveryWhatIfOut, SummaryOut
+from service.reports.summary import SiteSummary, site_summary
 from service.store import exports, register, surveys
 from service.store.errors import ConflictError, FieldError
 from service.store.models import Site, Survey
@@ -59,12 +60,17 @@ def summary_context(
     site: Site,
     survey: Survey | None,
     row_limit: int | None = SCREEN_ROWS,
+    what_if: Form | None = None,
 ) -> dict[str, Any]:
     """Everything the summary, the report and the site home show: one context. The
-    survey before, for the comparison, comes from the app's cache of roll-ups."""
+    survey before, for the comparison, comes from the app's cache of roll-ups. With
+    `what_if` (the flash-recovery form), its answer or its errors."""
     pricing = SitePricing.of(site)
     rolled_up = site_summary(session=session, site=site, survey=survey, pricing=pricing)
     summary = SummaryOut.of(rolled_up)
+    recovery = None
+    if what_if is not None:
+        recovery = _flash_recovery(what_if, rolled_up, pricing, display_for(site))
     previous = _previous(session, site, survey)
     comparison = None
     if previous is not None and survey is not None:
@@ -89,7 +95,32 @@ def summary_context(
         "survey": survey,
         "today": dt.date.today(),
         "row_limit": row_limit,
+        "what_if": what_if or Form({}),
+        "recovery": recovery,
     }
+
+
+def _flash_recovery(
+    form: Form, summary: SiteSummary, pricing: SitePricing, show: Display
+) -> FlashRecoveryWhatIfOut | None:
+    """The summary's flash-recovery what-if, from its form (vessel pressure in the site's
+    units, an area or every one); None with the errors in the form."""
+    vessel_kpa_g = form.number("vessel", show, Dimension.PRESSURE)
+    if vessel_kpa_g is None:
+        form.errors.setdefault("vessel", "enter the vessel's pressure")
+        return None
+    area = form.text("area") or None
+    if area is not None and area not in summary.by_area:
+        form.errors["area"] = f"the survey has no area '{area}'"
+        return None
+    try:
+        what_if = flash_recovery_what_if(
+            summary=summary, pricing=pricing, vessel_pressure_kpa_g=vessel_kpa_g, area_name=area
+        )
+    except ValueError as error:
+        form.errors["vessel"] = str(error)
+        return None
+    return FlashRecoveryWhatIfOut.model_validate(what_if)
 
 
 @router.get("/", response_class=HTMLResponse)
@@ -167,8 +198,13 @@ def summary_page(
 ) -> HTMLResponse:
     with db.reading() as session:
         site = viewer.get(session, Site, site_id)
-        context = summary_context(request, session, site, survey_choice(session, site, survey_id))
-        return page(request, "summary.html", site=site, **context)
+        typed = {name: str(value) for name, value in request.query_params.items()}
+        what_if = Form(typed) if "vessel" in typed else None
+        context = summary_context(
+            request, session, site, survey_choice(session, site, survey_id), what_if=what_if
+        )
+        status = 422 if what_if is not None and what_if.errors else 200
+        return page(request, "summary.html", site=site, status_code=status, **context)
 
 
 @router.get("/sites/{site_id}/report", response_class=HTMLResponse)
@@ -180,7 +216,7 @@ def report_page(
         context = summary_context(
             request, session, site, survey_choice(session, site, survey_id), row_limit=None
         )
-        return page(request, "report.html", site=site, **context)
+        return page(request, "report.html", site=site, print_only=True, **context)
 
 
 def _download(content: bytes | str, filename: str, media_type: str) -> Response:
@@ -263,6 +299,13 @@ SETTINGS_FIELDS: list[tuple[str, Dimension | None, str, str]] = [
         Dimension.PRICE_PER_MASS,
         "Sewer charge on drained condensate",
         "Sewer or trade-effluent charge per tonne run to drain, on either basis. Default 0.",
+    ),
+    (
+        "drain_temperature_limit_c",
+        Dimension.TEMPERATURE,
+        "Hottest water the sewer may take",
+        "Blank: no limit. Hot drains are cooled with make-up water to it, priced at water "
+        "and treatment plus the sewer charge (local discharge consents set it).",
     ),
     (
         "co2_kg_per_gj_fuel",

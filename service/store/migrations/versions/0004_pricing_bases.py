@@ -1,5 +1,5 @@
 """Pricing bases a manager signs: heating-value bases, closed-return pricing, sewer
-charges; a trap's superheated steam temperature.
+charges and cooling of hot drains; a trap's superheated steam temperature.
 
 Revision ID: 0004
 Revises: 0003
@@ -33,6 +33,7 @@ def upgrade() -> None:
         batch_op.add_column(
             sa.Column("sewer_cost_per_tonne", sa.Double(), server_default="0", nullable=False)
         )
+        batch_op.add_column(sa.Column("drain_temperature_limit_c", sa.Double(), nullable=True))
         batch_op.add_column(
             sa.Column(
                 "closed_return_pricing",
@@ -51,6 +52,7 @@ def downgrade() -> None:
     with op.batch_alter_table("sites", schema=None) as batch_op:
         for column in (
             "closed_return_pricing",
+            "drain_temperature_limit_c",
             "sewer_cost_per_tonne",
             "net_to_gross_ratio",
             "co2_factor_heating_value",
