@@ -5,7 +5,7 @@ BIN := $(VENV)/bin
 HOST ?= 127.0.0.1
 PORT ?= 8000
 
-.PHONY: install demo serve test lint fix bench clean
+.PHONY: install demo serve test check lint fix bench clean
 
 $(BIN)/.installed: pyproject.toml
 	python3 -m venv $(VENV)
@@ -24,10 +24,15 @@ serve: install
 lint: install
 	$(BIN)/ruff check .
 	$(BIN)/ruff format --check .
-	$(BIN)/mypy service
+	$(BIN)/mypy service tests
 
+# The whole suite, with the coverage floor: what CI runs.
 test: lint
-	$(BIN)/pytest
+	$(BIN)/pytest --cov=service --cov-report=term-missing:skip-covered --cov-fail-under=90
+
+# The everyday run: no browser, load, fuzzing or PostgreSQL tests, no coverage (under a minute).
+check: lint
+	$(BIN)/pytest -q -m "not slow and not browser and not load and not postgres"
 
 fix: install
 	$(BIN)/ruff check --fix .

@@ -73,7 +73,25 @@ def emptied(database: Database) -> Database:
     return database
 
 
-@pytest.fixture(params=["sqlite", "postgresql"])
+# Tests by the kind of run they need, so the everyday command can leave the long ones out
+# (`make check`) and CI runs them all (`make test`). Markers are declared in pyproject.toml.
+MARKERS_BY_PATH = {
+    "tests/browser/": "browser",
+    "tests/web/test_concurrency.py": "load",
+    "tests/web/test_api_fuzz.py": "slow",
+    "tests/web/test_form_fuzz.py": "slow",
+}
+
+
+def pytest_collection_modifyitems(items: list[pytest.Item]) -> None:
+    for item in items:
+        path = item.path.as_posix()
+        for part, marker in MARKERS_BY_PATH.items():
+            if part in path:
+                item.add_marker(marker)
+
+
+@pytest.fixture(params=["sqlite", pytest.param("postgresql", marks=pytest.mark.postgres)])
 def store(request: pytest.FixtureRequest) -> Database:
     """An empty, migrated database: each test that takes it runs on both backends."""
     return emptied(request.getfixturevalue(f"{request.param}_database"))

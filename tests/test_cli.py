@@ -17,7 +17,7 @@ from service.store.database import Database
 @pytest.fixture
 def served(monkeypatch: pytest.MonkeyPatch) -> list[dict[str, Any]]:
     calls: list[dict[str, Any]] = []
-    monkeypatch.setattr(cli.uvicorn, "run", lambda app, **options: calls.append(options))
+    monkeypatch.setattr("uvicorn.run", lambda app, **options: calls.append(options))
     return calls
 
 

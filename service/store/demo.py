@@ -6,11 +6,10 @@ from pathlib import Path
 from sqlalchemy import func, select
 from sqlalchemy.orm import Session
 
+from service.shipped import SEED_DATA
 from service.store import imports, register, surveys
 from service.store.models import Site
 from service.store.schemas import SiteCreate, SurveyCreate
-
-SEED_DATA = Path(__file__).resolve().parents[2] / "seed_data"
 
 
 def _applied(plan: imports.ImportPlan[imports.Data], name: str) -> imports.ImportPlan[imports.Data]:

@@ -1,7 +1,7 @@
 """Bulk import of a trap register, a survey's findings and a site's repairs from CSV.
 
 Two steps. `plan_...` reads the whole file and lists every problem with its row and
-column; it writes nothing. `apply_plan` writes a clean plan, all of it, inside the
+column; it writes nothing. `apply_...` writes a clean plan, all of it, inside the
 caller's one transaction. A row whose key (a trap's tag; a finding's trap and
 moment; a repair's trap, date and kind) is already stored updates that record, so
 importing the same file twice changes nothing the second time.
@@ -309,10 +309,6 @@ def _plan(
 
 
 # The register -------------------------------------------------------------------------
-
-
-def _traps(session: Session, site: Site) -> list[Trap]:
-    return list(session.scalars(select(Trap).where(Trap.site_id == site.id)))
 
 
 def plan_register(*, session: Session, site: Site, content: bytes) -> ImportPlan[TrapCreate]:

@@ -278,7 +278,3 @@ def list_traps(
     if where.condition is not None:
         query = query.join(Finding, is_latest_finding()).where(Finding.condition == where.condition)
     return paged(session, query, limit=limit, offset=offset)
-
-
-def trap_by_tag(*, session: Session, site: Site, tag: str) -> Trap | None:
-    return session.scalar(select(Trap).where(Trap.site_id == site.id, Trap.tag == tag))

@@ -5,7 +5,7 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 from typing import Any
 
-from sqlalchemy import func, select
+from sqlalchemy import select
 from sqlalchemy.exc import IntegrityError
 from sqlalchemy.orm import Session
 
@@ -190,12 +190,3 @@ def update_repair(*, session: Session, repair: Repair, changes: dict[str, Any]) 
 def repairs_of(*, session: Session, trap: Trap, limit: int, offset: int) -> Page[Repair]:
     query = select(Repair).where(Repair.trap_id == trap.id).order_by(Repair.repaired_on, Repair.id)
     return paged(session, query, limit=limit, offset=offset)
-
-
-def count_findings(*, session: Session, survey: Survey) -> int:
-    return (
-        session.scalar(
-            select(func.count()).select_from(Finding).where(Finding.survey_id == survey.id)
-        )
-        or 0
-    )

@@ -13,6 +13,7 @@ from service import __version__
 from service.accounts.sign_in_limits import SignInLimiter
 from service.reports.cache import RollupCache
 from service.settings import Settings
+from service.shipped import STATIC
 from service.store.database import Database
 from service.store.errors import ConflictError, FieldError, NotFoundError
 from service.web import errors, pages
@@ -30,7 +31,6 @@ from service.web.api import (
     traps,
 )
 from service.web.headers import SecurityHeaders
-from service.web.pages.templating import PROJECT
 
 API_ROUTERS = (
     health.router,
@@ -105,7 +105,7 @@ def create_app(database: Database | None = None, settings: Settings | None = Non
         )
     for router in PAGE_ROUTERS:
         app.include_router(router)
-    app.mount("/static", StaticFiles(directory=PROJECT / "static"), name="static")
+    app.mount("/static", StaticFiles(directory=STATIC), name="static")
     app.add_middleware(SecurityHeaders)
     app.add_exception_handler(RequestValidationError, errors.validation_error_as_422)
     app.add_exception_handler(ValidationError, errors.pydantic_error_as_422)

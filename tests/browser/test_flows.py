@@ -6,13 +6,13 @@ from typing import Any
 
 import httpx
 import pytest
-from playwright.sync_api import Browser, Page, Route, expect
+from playwright.sync_api import Browser, Page, Route, ViewportSize, expect
 from pypdf import PdfReader
 
 from service.store.database import Database
 from tests.browser.conftest import sign_in
 
-TABLET_PORTRAIT = {"width": 768, "height": 1024}
+TABLET_PORTRAIT: ViewportSize = {"width": 768, "height": 1024}
 
 
 @pytest.fixture

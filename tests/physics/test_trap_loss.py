@@ -290,10 +290,16 @@ def test_a_hot_drain_is_cooled_with_make_up_water_before_the_sewer() -> None:
         "condensate_load_kg_h": 50.0,
         "destination": CondensateDestination.DRAIN,
     }
-    prices = {"fuel_price_per_gj": 10.0, "water_and_treatment_cost_per_tonne": 2.0}
-    plain = trap_loss(_trap(**drained), Economics(**prices)).condensate.condensate_to_drain
+    plain = trap_loss(
+        _trap(**drained), Economics(fuel_price_per_gj=10.0, water_and_treatment_cost_per_tonne=2.0)
+    ).condensate.condensate_to_drain
     cooled = trap_loss(
-        _trap(**drained), Economics(**prices, drain_temperature_limit_c=60.0)
+        _trap(**drained),
+        Economics(
+            fuel_price_per_gj=10.0,
+            water_and_treatment_cost_per_tonne=2.0,
+            drain_temperature_limit_c=60.0,
+        ),
     ).condensate.condensate_to_drain
     flash = flash_of_condensate(INLET, RETURN).flash_fraction
     hot = steam_tables.saturation_at_pressure(RETURN).hf_kj_kg

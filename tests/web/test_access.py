@@ -125,7 +125,7 @@ def _routes() -> list[tuple[str, str]]:
         for prefix, router in mounted
         for route in router.routes
         if isinstance(route, APIRoute)
-        for method in route.methods
+        for method in route.methods or ()
     )
 
 

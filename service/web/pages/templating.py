@@ -1,6 +1,5 @@
 """The Jinja2 environment the pages share, and what every template may call."""
 
-from pathlib import Path
 from typing import Any
 
 from fastapi import Request
@@ -10,12 +9,12 @@ from fastapi.templating import Jinja2Templates
 from service import __version__
 from service.accounts.roles import Permission
 from service.physics.conditions import TrapCondition, is_failed, is_flooding_risk
+from service.shipped import TEMPLATES
 from service.store.models import Site
 from service.store.vocabulary import label
 from service.web.display import Display, percent
 
-PROJECT = Path(__file__).resolve().parents[3]
-templates = Jinja2Templates(directory=PROJECT / "templates")
+templates = Jinja2Templates(directory=TEMPLATES)
 templates.env.globals.update(
     label=label,
     percent=percent,

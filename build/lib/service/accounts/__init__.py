@@ -1,0 +1,1 @@
+"""Accounts: the people who sign in, what their roles permit, their sessions and tokens."""

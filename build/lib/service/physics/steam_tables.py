@@ -1,0 +1,224 @@
+"""Properties of water and steam from IAPWS-IF97: the one adapter around `iapws`.
+
+No other module imports `iapws`. This one converts the project's declared units to the
+library's (MPa, K, kJ/kg) and back, turns the library's out-of-range errors into a
+`ValueError` with a sentence a technician can read, and caches the lookups a survey
+repeats thousands of times at the same few pressure levels.
+
+Units here and in every caller: pressure kPa absolute, temperature degC, specific
+enthalpy kJ/kg, specific entropy kJ/(kg K), specific volume m3/kg.
+
+Source: IAPWS R7-97(2012), "Revised Release on the IAPWS Industrial Formulation 1997
+for the Thermodynamic Properties of Water and Steam", evaluated by `iapws.IAPWS97`.
+"""
+
+from collections.abc import Callable
+from dataclasses import dataclass
+from functools import lru_cache
+
+from iapws import IAPWS97
+
+KELVIN_AT_ZERO_C = 273.15
+TRIPLE_POINT_PRESSURE_KPA = 0.611657
+CRITICAL_PRESSURE_KPA = 22064.0
+TRIPLE_POINT_TEMPERATURE_C = 0.01
+CRITICAL_TEMPERATURE_C = 373.946
+# IF97 region 2 reaches 1073.15 K; region 5 (to 2273.15 K) is of no use to a steam trap.
+MAXIMUM_TEMPERATURE_C = 800.0
+MAXIMUM_PRESSURE_KPA = 100_000.0
+
+_CACHE_SIZE = 8192
+
+
+@dataclass(frozen=True, slots=True)
+class Saturation:
+    """Saturated liquid (f) and saturated vapour (g) at one pressure."""
+
+    pressure_kpa_abs: float
+    temperature_c: float
+    hf_kj_kg: float
+    hg_kj_kg: float
+    sf_kj_kg_k: float
+    sg_kj_kg_k: float
+    vf_m3_kg: float
+    vg_m3_kg: float
+
+    @property
+    def hfg_kj_kg(self) -> float:
+        """Latent heat of evaporation, hg - hf [kJ/kg]."""
+        return self.hg_kj_kg - self.hf_kj_kg
+
+
+@dataclass(frozen=True, slots=True)
+class Properties:
+    """Temperature, enthalpy, entropy, volume and quality of one equilibrium state."""
+
+    temperature_c: float
+    enthalpy_kj_kg: float
+    entropy_kj_kg_k: float
+    specific_volume_m3_kg: float
+    quality: float | None  # None outside the two-phase region
+
+
+def require_saturation_pressure(pressure_kpa_abs: float) -> None:
+    """Raise ValueError unless the pressure lies on IF97's saturation line.
+
+    The line runs from the triple point, 0.611657 kPa, to the critical point, 22064 kPa
+    (IAPWS R7-97(2012), section 8).
+
+    >>> require_saturation_pressure(101.325)
+    >>> require_saturation_pressure(30000.0)
+    Traceback (most recent call last):
+    ...
+    ValueError: 30000 kPa(abs) is outside the range of boiling water and steam, ...
+    """
+    if not TRIPLE_POINT_PRESSURE_KPA <= pressure_kpa_abs <= CRITICAL_PRESSURE_KPA:
+        raise ValueError(
+            f"{pressure_kpa_abs:.6g} kPa(abs) is outside the range of boiling water and steam, "
+            f"{TRIPLE_POINT_PRESSURE_KPA} to {CRITICAL_PRESSURE_KPA:.0f} kPa(abs)"
+        )
+
+
+def require_saturation_temperature(temperature_c: float) -> None:
+    """Raise ValueError unless the temperature lies on IF97's saturation line.
+
+    >>> require_saturation_temperature(400.0)
+    Traceback (most recent call last):
+    ...
+    ValueError: 400 °C is outside the range of boiling water and steam, 0.01 to 373.946 °C
+    """
+    if not TRIPLE_POINT_TEMPERATURE_C <= temperature_c <= CRITICAL_TEMPERATURE_C:
+        raise ValueError(
+            f"{temperature_c:.6g} °C is outside the range of boiling water and steam, "
+            f"{TRIPLE_POINT_TEMPERATURE_C} to {CRITICAL_TEMPERATURE_C} °C"
+        )
+
+
+def _require_single_phase_range(pressure_kpa_abs: float, temperature_c: float) -> None:
+    if not TRIPLE_POINT_PRESSURE_KPA <= pressure_kpa_abs <= MAXIMUM_PRESSURE_KPA:
+        raise ValueError(
+            f"{pressure_kpa_abs:.6g} kPa(abs) is outside IAPWS-IF97's range, "
+            f"{TRIPLE_POINT_PRESSURE_KPA} to {MAXIMUM_PRESSURE_KPA:.0f} kPa(abs)"
+        )
+    if not TRIPLE_POINT_TEMPERATURE_C <= temperature_c <= MAXIMUM_TEMPERATURE_C:
+        raise ValueError(
+            f"{temperature_c:.6g} °C is outside the range this program covers, "
+            f"{TRIPLE_POINT_TEMPERATURE_C} to {MAXIMUM_TEMPERATURE_C:.0f} °C"
+        )
+
+
+_READABLE_INPUTS: dict[str, Callable[[float], str]] = {
+    "P": lambda mpa: f"{mpa * 1000.0:.6g} kPa(abs)",
+    "T": lambda kelvin: f"{kelvin - KELVIN_AT_ZERO_C:.6g} °C",
+    "h": lambda kj_kg: f"{kj_kg:.6g} kJ/kg",
+    "s": lambda kj_kg_k: f"{kj_kg_k:.6g} kJ/(kg K)",
+    "x": lambda quality: f"quality {quality:.6g}",
+}
+
+
+def _evaluate(**inputs: float) -> IAPWS97:
+    try:
+        state = IAPWS97(**inputs)
+        evaluated = state.status == 1
+    except NotImplementedError:
+        evaluated = False
+    if not evaluated:
+        given = " and ".join(_READABLE_INPUTS[name](value) for name, value in inputs.items())
+        raise ValueError(f"water and steam have no IAPWS-IF97 state at {given}")
+    return state
+
+
+def _saturation(liquid: IAPWS97, vapour: IAPWS97) -> Saturation:
+    return Saturation(
+        pressure_kpa_abs=float(liquid.P) * 1000.0,
+        temperature_c=float(liquid.T) - KELVIN_AT_ZERO_C,
+        hf_kj_kg=float(liquid.h),
+        hg_kj_kg=float(vapour.h),
+        sf_kj_kg_k=float(liquid.s),
+        sg_kj_kg_k=float(vapour.s),
+        vf_m3_kg=float(liquid.v),
+        vg_m3_kg=float(vapour.v),
+    )
+
+
+def _properties(state: IAPWS97) -> Properties:
+    two_phase = state.region == 4
+    return Properties(
+        temperature_c=float(state.T) - KELVIN_AT_ZERO_C,
+        enthalpy_kj_kg=float(state.h),
+        entropy_kj_kg_k=float(state.s),
+        specific_volume_m3_kg=float(state.v),
+        quality=float(state.x) if two_phase else None,
+    )
+
+
+@lru_cache(maxsize=_CACHE_SIZE)
+def saturation_at_pressure(pressure_kpa_abs: float) -> Saturation:
+    """Saturation properties at a pressure [kPa abs], 0.611657 to 22064 kPa.
+
+    Source: IAPWS R7-97(2012), region 4 with regions 1 and 2 (region 3 near the
+    critical point).
+
+    >>> s = saturation_at_pressure(1000.0)
+    >>> round(s.temperature_c, 3), round(s.hf_kj_kg, 2), round(s.hg_kj_kg, 2)
+    (179.886, 762.68, 2777.12)
+    """
+    require_saturation_pressure(pressure_kpa_abs)
+    pressure_mpa = pressure_kpa_abs / 1000.0
+    return _saturation(_evaluate(P=pressure_mpa, x=0.0), _evaluate(P=pressure_mpa, x=1.0))
+
+
+@lru_cache(maxsize=_CACHE_SIZE)
+def saturation_at_temperature(temperature_c: float) -> Saturation:
+    """Saturation properties at a temperature [degC], 0.01 to 373.946 degC.
+
+    >>> round(saturation_at_temperature(100.0).pressure_kpa_abs, 3)
+    101.418
+    """
+    require_saturation_temperature(temperature_c)
+    temperature_k = temperature_c + KELVIN_AT_ZERO_C
+    return _saturation(_evaluate(T=temperature_k, x=0.0), _evaluate(T=temperature_k, x=1.0))
+
+
+@lru_cache(maxsize=_CACHE_SIZE)
+def properties_at_pressure_temperature(pressure_kpa_abs: float, temperature_c: float) -> Properties:
+    """Single-phase properties at pressure [kPa abs] and temperature [degC].
+
+    Compressed liquid below the saturation temperature (IF97 region 1, or 3 near the
+    critical point), steam above it (region 2). Valid 0.611657 kPa to 100 MPa and
+    0.01 to 800 degC.
+
+    >>> round(properties_at_pressure_temperature(3000.0, 300.0 - 273.15).enthalpy_kj_kg, 6)
+    115.331273
+    """
+    _require_single_phase_range(pressure_kpa_abs, temperature_c)
+    return _properties(_evaluate(P=pressure_kpa_abs / 1000.0, T=temperature_c + KELVIN_AT_ZERO_C))
+
+
+@lru_cache(maxsize=_CACHE_SIZE)
+def properties_at_pressure_enthalpy(pressure_kpa_abs: float, enthalpy_kj_kg: float) -> Properties:
+    """Equilibrium properties at pressure [kPa abs] and specific enthalpy [kJ/kg].
+
+    Uses IF97's backward equations T(p, h) outside the two-phase region.
+
+    >>> round(properties_at_pressure_enthalpy(1000.0, 3000.0).temperature_c, 2)
+    275.97
+    """
+    state = _evaluate(P=pressure_kpa_abs / 1000.0, h=enthalpy_kj_kg)
+    _require_single_phase_range(pressure_kpa_abs, state.T - KELVIN_AT_ZERO_C)
+    return _properties(state)
+
+
+@lru_cache(maxsize=_CACHE_SIZE)
+def properties_at_pressure_entropy(pressure_kpa_abs: float, entropy_kj_kg_k: float) -> Properties:
+    """Equilibrium properties at pressure [kPa abs] and specific entropy [kJ/(kg K)].
+
+    The end state of an isentropic expansion. Uses IF97's backward equations T(p, s)
+    outside the two-phase region.
+
+    >>> round(properties_at_pressure_entropy(100.0, 6.5).quality, 4)
+    0.8582
+    """
+    state = _evaluate(P=pressure_kpa_abs / 1000.0, s=entropy_kj_kg_k)
+    _require_single_phase_range(pressure_kpa_abs, state.T - KELVIN_AT_ZERO_C)
+    return _properties(state)

@@ -1,0 +1,419 @@
+"""The roll-ups as the API, the pages and the exports all present them (SI units).
+
+One shape, built once from a summary, serves every rendering, so a page and the
+API can never disagree about a number.
+"""
+
+import datetime as dt
+from typing import Any
+
+from pydantic import BaseModel, ConfigDict, Field
+
+from service.physics.annual import YearlyLoss
+from service.physics.conditions import FindingCategory, TrapCondition
+from service.physics.trap_loss import CondensateDestination
+from service.reports.compare import Change, SurveyComparison, TrapChange
+from service.reports.summary import PricedTrap, SiteSummary, Tally
+from service.store.models import Survey
+from service.store.vocabulary import Application, RecommendedAction, RepairKind, TrapType, label
+
+
+class TallyOut(BaseModel):
+    """Yearly figures of a group of traps, in the two kinds a manager signs apart.
+
+    `annual_*` without a kind are failure losses (live steam of failed traps: what
+    repairs remove), unsuffixed typical, `_low` and `_high` their range. `annual_flash_*`,
+    `annual_drain_*` and `annual_installation_*` are installation losses (flash vented,
+    condensate drained: what projects remove). Never add the two without showing both.
+    """
+
+    traps: int
+    failed: int = Field(description="Needing repair: failures and risks")
+    failures: int = Field(description="Wasting live steam: leaking, blowing through, cycling")
+    risks: int = Field(description="Plugged or flooded")
+    unknown: int = Field(description="Not accessible")
+    annual_steam_loss_t: float
+    annual_steam_loss_t_low: float
+    annual_steam_loss_t_high: float
+    annual_energy_loss_gj: float
+    annual_energy_loss_gj_low: float
+    annual_energy_loss_gj_high: float
+    annual_fuel_gj: float
+    annual_cost: float | None
+    annual_cost_low: float | None
+    annual_cost_high: float | None
+    annual_co2_t: float
+    annual_co2_t_low: float
+    annual_co2_t_high: float
+    annual_flash_vented_t: float
+    annual_flash_cost: float | None
+    annual_condensate_to_drain_t: float
+    annual_drain_cost: float | None
+    annual_installation_energy_gj: float
+    annual_installation_cost: float | None
+    annual_installation_co2_t: float
+
+    @classmethod
+    def of(cls, tally: Tally) -> "TallyOut":
+        installation = tally.installation
+        return cls(
+            traps=tally.traps,
+            failed=tally.failed,
+            failures=tally.failures,
+            risks=tally.risks,
+            unknown=tally.unknown,
+            **ranged_fields(tally.failure, tally.failure_low, tally.failure_high),
+            annual_fuel_gj=tally.failure.fuel_gj,
+            annual_flash_vented_t=tally.flash_vented.mass_t,
+            annual_flash_cost=tally.flash_vented.cost,
+            annual_condensate_to_drain_t=tally.condensate_to_drain.mass_t,
+            annual_drain_cost=tally.condensate_to_drain.cost,
+            annual_installation_energy_gj=installation.energy_gj,
+            annual_installation_cost=installation.cost,
+            annual_installation_co2_t=installation.co2_t,
+        )
+
+
+RANGED_FIGURES = {
+    "annual_steam_loss_t": "mass_t",
+    "annual_energy_loss_gj": "energy_gj",
+    "annual_cost": "cost",
+    "annual_co2_t": "co2_t",
+}
+
+
+def ranged_fields(typical: YearlyLoss, low: YearlyLoss, high: YearlyLoss) -> dict[str, Any]:
+    """A yearly loss and its range as `name`, `name_low` and `name_high` fields."""
+    fields: dict[str, Any] = {}
+    for name, figure in RANGED_FIGURES.items():
+        fields[name] = getattr(typical, figure)
+        fields[f"{name}_low"] = getattr(low, figure)
+        fields[f"{name}_high"] = getattr(high, figure)
+    return fields
+
+
+class GroupOut(TallyOut):
+    key: str
+    label: str
+
+
+def _groups(tallies: dict[str, Tally], named: bool = False) -> list[GroupOut]:
+    """Groups of a breakdown; `named` ones (areas) keep their own names as labels, the
+    rest are the program's words, labelled for reading."""
+    return [
+        GroupOut(key=key, label=key if named else label(key), **TallyOut.of(tally).model_dump())
+        for key, tally in tallies.items()
+    ]
+
+
+class PricedTrapOut(BaseModel):
+    """One tested trap as found, and what it costs a year."""
+
+    trap_id: int
+    tag: str
+    location: str
+    area_id: int | None
+    area_name: str
+    application: Application
+    trap_type: TrapType
+    finding_id: int
+    tested_at: dt.datetime
+    condition: TrapCondition
+    category: FindingCategory
+    recommended_action: RecommendedAction
+    inlet_pressure_kpa_abs: float
+    return_pressure_kpa_abs: float
+    orifice_diameter_mm: float
+    hours_per_year: float
+    condensate_load_kg_h: float
+    condensate_destination: CondensateDestination
+    discharge_coefficient: float
+    discharge_coefficient_low: float
+    discharge_coefficient_high: float
+    loss_factor: float
+    loss_factor_low: float
+    loss_factor_high: float
+    steam_loss_kg_h: float
+    steam_loss_kg_h_low: float
+    steam_loss_kg_h_high: float
+    steam_temperature_c: float | None = Field(description="A superheated line's; else null")
+    condensate_temperature_c: float | None = Field(
+        description="Condensate leaving the trap below saturation; null: saturated"
+    )
+    annual_steam_loss_t: float = Field(description="Failure loss: what a repair removes")
+    annual_steam_loss_t_low: float
+    annual_steam_loss_t_high: float
+    annual_energy_loss_gj: float
+    annual_energy_loss_gj_low: float
+    annual_energy_loss_gj_high: float
+    annual_cost: float | None
+    annual_cost_low: float | None
+    annual_cost_high: float | None
+    annual_co2_t: float
+    annual_co2_t_low: float
+    annual_co2_t_high: float
+    annual_installation_cost: float | None = Field(
+        description="Flash vented and condensate drained: not removed by a repair"
+    )
+    annual_installation_co2_t: float
+    repair_kind: RepairKind
+    repair_cost: float | None
+    payback_years: float | None = Field(
+        description="Repair cost over the typical yearly failure loss"
+    )
+    payback_years_low: float | None = Field(description="Over the high yearly failure loss")
+    payback_years_high: float | None = Field(description="Over the low yearly failure loss")
+    repaired_on: dt.date | None = Field(
+        description="A repair since this finding, awaiting the test that confirms it"
+    )
+    risk: str | None
+
+    @classmethod
+    def of(cls, priced: PricedTrap) -> "PricedTrapOut":
+        loss, service = priced.loss, priced.service
+        return cls(
+            trap_id=priced.trap_id,
+            tag=priced.tag,
+            location=priced.location,
+            area_id=priced.area_id,
+            area_name=priced.area_name,
+            application=priced.application,
+            trap_type=priced.trap_type,
+            finding_id=priced.finding_id,
+            tested_at=priced.tested_at,
+            condition=priced.condition,
+            category=priced.category,
+            recommended_action=priced.recommended_action,
+            inlet_pressure_kpa_abs=service.inlet_pressure_kpa_abs,
+            return_pressure_kpa_abs=service.return_pressure_kpa_abs,
+            orifice_diameter_mm=service.orifice_diameter_mm,
+            hours_per_year=service.hours_per_year,
+            condensate_load_kg_h=service.condensate_load_kg_h,
+            condensate_destination=service.destination,
+            discharge_coefficient=service.discharge_coefficient.typical,
+            discharge_coefficient_low=service.discharge_coefficient.low,
+            discharge_coefficient_high=service.discharge_coefficient.high,
+            loss_factor=loss.loss_factor.typical,
+            loss_factor_low=loss.loss_factor.low,
+            loss_factor_high=loss.loss_factor.high,
+            steam_loss_kg_h=loss.steam_loss_kg_h.typical,
+            steam_loss_kg_h_low=loss.steam_loss_kg_h.low,
+            steam_loss_kg_h_high=loss.steam_loss_kg_h.high,
+            steam_temperature_c=service.steam_temperature_c,
+            condensate_temperature_c=service.condensate_temperature_c,
+            **ranged_fields(loss.live_steam, loss.live_steam_low, loss.live_steam_high),
+            annual_installation_cost=loss.installation.cost,
+            annual_installation_co2_t=loss.installation.co2_t,
+            repair_kind=priced.repair_kind,
+            repair_cost=priced.repair_cost,
+            payback_years=priced.payback,
+            payback_years_low=priced.payback_years(loss.live_steam_high.cost),
+            payback_years_high=priced.payback_years(loss.live_steam_low.cost),
+            repaired_on=priced.repaired_on,
+            risk=loss.risk,
+        )
+
+
+class FlashRecoveryWhatIfOut(BaseModel):
+    """A flash vessel for the survey's traps that vent their flash, in one area or all."""
+
+    model_config = ConfigDict(from_attributes=True)
+
+    vessel_pressure_kpa_g: float
+    area_name: str | None = Field(description="Null: every area")
+    traps: int = Field(description="Venting flash, in the group, above the vessel's pressure")
+    traps_below_vessel: int = Field(description="Venting flash, but not above its pressure")
+    condensate_load_kg_h: float
+    recovered_steam_kg_h: float
+    annual_recovered_steam_t: float
+    annual_energy_gj: float = Field(description="Heat of the live steam it displaces")
+    annual_fuel_gj: float
+    annual_value: float | None
+    annual_co2_t: float
+    caution: str
+
+
+class SurveyRef(BaseModel):
+    id: int
+    name: str
+    started_on: dt.date
+    ended_on: dt.date | None
+
+    @classmethod
+    def of(cls, survey: Survey) -> "SurveyRef":
+        return cls(
+            id=survey.id, name=survey.name, started_on=survey.started_on, ended_on=survey.ended_on
+        )
+
+
+class SummaryOut(BaseModel):
+    """A site's survey priced and rolled up in the accounting a manager signs.
+
+    The headline `annual_*` figures are failure losses (what repairs remove), with
+    their range. `totals` holds them beside the installation losses (flash vented and
+    condensate drained: what projects remove), by destination in `by_destination`.
+    Risks (plugged, flooded) and unknowns (not accessible, untested) are counted and
+    listed, not priced.
+    """
+
+    site_id: int
+    site_name: str
+    currency: str
+    survey: SurveyRef | None
+    traps_in_service: int
+    traps_tested: int = Field(description="Tested in operation (not 'not accessible' or out)")
+    traps_untested: int
+    traps_not_accessible: int
+    traps_out_of_service: int
+    failed_count: int = Field(description="Needing repair: failures and risks")
+    failure_count: int = Field(description="Wasting live steam")
+    failure_rate: float | None
+    annual_steam_loss_t: float
+    annual_steam_loss_t_low: float
+    annual_steam_loss_t_high: float
+    annual_energy_loss_gj: float
+    annual_energy_loss_gj_low: float
+    annual_energy_loss_gj_high: float
+    annual_cost: float | None
+    annual_cost_low: float | None
+    annual_cost_high: float | None
+    annual_co2_t: float
+    annual_co2_t_low: float
+    annual_co2_t_high: float
+    totals: TallyOut = Field(description="Failure and installation losses of every trap tested")
+    by_condition: list[GroupOut]
+    by_area: list[GroupOut]
+    by_application: list[GroupOut]
+    by_destination: list[GroupOut]
+    risk_count: int
+    unknown_count: int = Field(description="Not accessible, and not tested in this survey")
+    risks: list[PricedTrapOut]
+    repair_list: list[PricedTrapOut] = Field(
+        description="By payback on failure losses, quickest first; the CSV's rank"
+    )
+
+    @classmethod
+    def of(cls, summary: SiteSummary) -> "SummaryOut":
+        totals = TallyOut.of(summary.totals)
+        survey = summary.survey
+        return cls(
+            site_id=summary.site.id,
+            site_name=summary.site.name,
+            currency=summary.site.currency,
+            survey=None if survey is None else SurveyRef.of(survey),
+            traps_in_service=summary.traps_in_service,
+            traps_tested=summary.traps_tested,
+            traps_untested=summary.traps_untested,
+            traps_not_accessible=summary.traps_not_accessible,
+            traps_out_of_service=summary.traps_out_of_service,
+            failed_count=summary.failed_count,
+            failure_count=summary.totals.failures,
+            failure_rate=summary.failure_rate,
+            **ranged_fields(
+                summary.totals.failure, summary.totals.failure_low, summary.totals.failure_high
+            ),
+            totals=totals,
+            by_condition=_groups({str(key): tally for key, tally in summary.by_condition.items()}),
+            by_area=_groups(summary.by_area, named=True),
+            by_application=_groups(
+                {str(key): tally for key, tally in summary.by_application.items()}
+            ),
+            by_destination=_groups(
+                {str(key): tally for key, tally in summary.by_destination.items()}
+            ),
+            risk_count=len(summary.risks),
+            unknown_count=summary.traps_not_accessible + summary.traps_untested,
+            risks=[PricedTrapOut.of(priced) for priced in summary.risks],
+            repair_list=[PricedTrapOut.of(priced) for priced in summary.repair_list],
+        )
+
+
+class TrapChangeOut(BaseModel):
+    trap_id: int
+    tag: str
+    area_name: str
+    condition_before: TrapCondition | None
+    condition_after: TrapCondition | None
+    repaired_on: dt.date | None
+    annual_cost_before: float = Field(description="Failure loss")
+    annual_cost_after: float
+
+    @classmethod
+    def of(cls, change: TrapChange) -> "TrapChangeOut":
+        # Built from the program's own typed record: nothing to validate, thousands a page.
+        return cls.model_construct(
+            trap_id=change.trap_id,
+            tag=change.tag,
+            area_name=change.area_name,
+            condition_before=change.condition_before,
+            condition_after=change.condition_after,
+            repaired_on=change.repaired_on,
+            annual_cost_before=change.yearly_cost_before,
+            annual_cost_after=change.yearly_cost_after,
+        )
+
+
+class ComparisonOut(BaseModel):
+    """From one survey to a later one, over the traps tested in operation in both.
+
+    Costs are failure losses; a negative change is money saved. The change's range
+    holds the site's assumptions fixed on both sides (low with low, high with high).
+    """
+
+    from_survey: SurveyRef
+    to_survey: SurveyRef
+    failed_before: int
+    failed_after: int
+    traps_compared: int = Field(description="Tested in operation in both rounds")
+    traps_left_out: int = Field(description="Tested in operation in one round only")
+    traps_only_before: int
+    traps_only_after: int
+    annual_cost_before: float = Field(description="Failure loss, over the traps compared")
+    annual_cost_after: float
+    annual_cost_change: float
+    annual_cost_change_low: float
+    annual_cost_change_high: float
+    annual_installation_cost_before: float = Field(description="Over the traps compared")
+    annual_installation_cost_after: float
+    newly_failed: list[TrapChangeOut]
+    repaired_and_confirmed: list[TrapChangeOut]
+    recovered_without_repair: list[TrapChangeOut]
+    still_failed: list[TrapChangeOut]
+    not_retested: list[TrapChangeOut]
+    new_risk: list[TrapChangeOut]
+    risk_removed: list[TrapChangeOut]
+    still_a_risk: list[TrapChangeOut]
+    change_counts: dict[Change, int] = Field(description="Traps in each list, in all")
+
+    @classmethod
+    def of(cls, comparison: SurveyComparison, at_most: int | None = None) -> "ComparisonOut":
+        """The comparison; with `at_most`, each list cut to its first items (a page shows
+        a few tags and the counts)."""
+
+        def listed(change: Change) -> list[TrapChangeOut]:
+            items = comparison.changes.get(change, [])[:at_most]
+            return [TrapChangeOut.of(item) for item in items]
+
+        before, after = comparison.before, comparison.after
+        assert before.survey is not None
+        assert after.survey is not None
+        change_low, change_high = comparison.cost_change_range
+        return cls(
+            from_survey=SurveyRef.of(before.survey),
+            to_survey=SurveyRef.of(after.survey),
+            failed_before=before.failed_count,
+            failed_after=after.failed_count,
+            traps_compared=comparison.traps_compared,
+            traps_left_out=comparison.traps_left_out,
+            traps_only_before=comparison.traps_only_before,
+            traps_only_after=comparison.traps_only_after,
+            annual_cost_before=comparison.failure_cost_before.typical,
+            annual_cost_after=comparison.failure_cost_after.typical,
+            annual_cost_change=comparison.cost_change,
+            annual_cost_change_low=change_low,
+            annual_cost_change_high=change_high,
+            annual_installation_cost_before=comparison.installation_cost_before,
+            annual_installation_cost_after=comparison.installation_cost_after,
+            **{change.value: listed(change) for change in Change},
+            change_counts={change: len(comparison.changes.get(change, [])) for change in Change},
+        )

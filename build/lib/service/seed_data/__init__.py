@@ -1,0 +1,1 @@
+"""The demo plant (invented), shipped inside the package as `service.seed_data`."""

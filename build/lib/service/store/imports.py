@@ -1,0 +1,472 @@
+"""Bulk import of a trap register, a survey's findings and a site's repairs from CSV.
+
+Two steps. `plan_...` reads the whole file and lists every problem with its row and
+column; it writes nothing. `apply_...` writes a clean plan, all of it, inside the
+caller's one transaction. A row whose key (a trap's tag; a finding's trap and
+moment; a repair's trap, date and kind) is already stored updates that record, so
+importing the same file twice changes nothing the second time.
+
+The columns are listed in README.md, "Importing and exporting".
+"""
+
+import datetime as dt
+from collections.abc import Callable
+from dataclasses import dataclass, field
+from typing import Any, Generic, TypeVar
+
+from pydantic import BaseModel, ValidationError
+from sqlalchemy import select
+from sqlalchemy.orm import Session
+
+from service.store import register
+from service.store.csv_format import (
+    LOAD,
+    ORIFICE,
+    Problem,
+    Table,
+    UnitColumn,
+    UnreadableFile,
+    in_file_units,
+    number,
+    number_in_program_unit,
+    pressure_column,
+    read_table,
+    temperature_column,
+    unit_header,
+    word,
+    yes_or_no,
+)
+from service.store.errors import FieldError
+from service.store.models import Area, Finding, Repair, Site, Survey, Trap
+from service.store.schemas import FindingCreate, RepairCreate, TrapCreate
+
+Data = TypeVar("Data", bound=BaseModel)
+
+TEXT, WORD, NUMBER, INTEGER, YES_NO, DATE, MOMENT = (
+    "text",
+    "word",
+    "number",
+    "integer",
+    "yes_no",
+    "date",
+    "moment",
+)
+
+
+@dataclass(frozen=True, slots=True)
+class Column:
+    """A plain column: its header is the field's name."""
+
+    name: str
+    kind: str
+    required: bool = False
+
+
+@dataclass(frozen=True, slots=True)
+class ImportFormat:
+    """The columns a kind of file has, and which ones pick out a record to update."""
+
+    columns: tuple[Column, ...]
+    unit_columns: tuple[tuple[UnitColumn, bool], ...]  # (column, required)
+    model: type[BaseModel]
+    extra_columns: tuple[str, ...] = ()  # read, but not fields of the model (e.g. area)
+
+    def known_headers(self) -> set[str]:
+        headers = {column.name for column in self.columns} | set(self.extra_columns)
+        for unit_column, _ in self.unit_columns:
+            headers |= set(unit_column.headers)
+        return headers
+
+
+REGISTER = ImportFormat(
+    columns=(
+        Column("tag", TEXT, required=True),
+        Column("location", TEXT),
+        Column("route_position", INTEGER),
+        Column("application", WORD, required=True),
+        Column("trap_type", WORD, required=True),
+        Column("connection_size", TEXT),
+        Column("condensate_destination", WORD),
+        Column("hours_per_year", NUMBER),
+        Column("in_service", YES_NO),
+        Column("installed_on", DATE),
+        Column("notes", TEXT),
+    ),
+    unit_columns=(
+        (ORIFICE, True),
+        (pressure_column("inlet_pressure"), True),
+        (pressure_column("return_pressure"), True),
+        (LOAD, False),
+        (temperature_column("steam_temperature"), False),
+    ),
+    model=TrapCreate,
+    extra_columns=("area",),
+)
+FINDINGS = ImportFormat(
+    columns=(
+        Column("tag", TEXT, required=True),
+        Column("tested_at", MOMENT, required=True),
+        Column("tested_by", TEXT),
+        Column("method", WORD, required=True),
+        Column("condition", WORD, required=True),
+        Column("loss_factor_override", NUMBER),
+        Column("recommended_action", WORD),
+        Column("notes", TEXT),
+    ),
+    unit_columns=(
+        (temperature_column("upstream_temperature"), False),
+        (temperature_column("downstream_temperature"), False),
+    ),
+    model=FindingCreate,
+)
+REPAIRS = ImportFormat(
+    columns=(
+        Column("tag", TEXT, required=True),
+        Column("repaired_on", DATE, required=True),
+        Column("kind", WORD, required=True),
+        Column("cost", NUMBER),
+        Column("notes", TEXT),
+    ),
+    unit_columns=(),
+    model=RepairCreate,
+)
+
+
+@dataclass(frozen=True, slots=True)
+class PlannedRow(Generic[Data]):
+    """One clean row: what to store, the fields its file gave, and what it updates."""
+
+    row: int
+    data: Data
+    existing_id: int | None  # the stored record this row updates
+    trap_id: int | None  # the trap the row is about
+    cells: dict[str, str]
+
+
+@dataclass(slots=True)
+class ImportPlan(Generic[Data]):
+    """What a file would write, or why it cannot be written."""
+
+    kind: str
+    columns: list[str] = field(default_factory=list)
+    rows: list[PlannedRow[Data]] = field(default_factory=list)
+    problems: list[Problem] = field(default_factory=list)
+
+    @property
+    def creates(self) -> int:
+        return sum(row.existing_id is None for row in self.rows)
+
+    @property
+    def updates(self) -> int:
+        return len(self.rows) - self.creates
+
+    @property
+    def clean(self) -> bool:
+        return not self.problems
+
+
+def _cell_value(table: Table, kind: str, text: str) -> Any:
+    if kind == TEXT:
+        return text
+    if kind == WORD:
+        return word(text)
+    if kind == NUMBER:
+        return number(table, text)
+    if kind == INTEGER:
+        value = number(table, text)
+        if value != int(value):
+            raise ValueError(f"'{text}' is not a whole number")
+        return int(value)
+    if kind == YES_NO:
+        return yes_or_no(text)
+    if kind == DATE:
+        return dt.date.fromisoformat(text)
+    return _moment(text)
+
+
+def _moment(text: str) -> dt.datetime:
+    try:
+        moment = dt.datetime.fromisoformat(text.replace(" ", "T", 1))
+    except ValueError:
+        raise ValueError(f"'{text}' is not a date and time like 2026-03-14T09:30") from None
+    return moment if moment.tzinfo else moment.replace(tzinfo=dt.UTC)
+
+
+def _header_problems(table: Table, spec: ImportFormat) -> tuple[list[Problem], dict[str, str]]:
+    """Missing and unknown columns, and the header each unit column is read from."""
+    problems = [
+        Problem(1, column.name, "this column is required")
+        for column in spec.columns
+        if column.required and column.name not in table.header
+    ]
+    chosen: dict[str, str] = {}
+    for unit_column, required in spec.unit_columns:
+        try:
+            header = unit_header(table, unit_column)
+        except UnreadableFile as error:
+            problems.append(Problem(1, unit_column.field, str(error)))
+            continue
+        if header is not None:
+            chosen[unit_column.field] = header
+        elif required:
+            choices = " or ".join(unit_column.headers)
+            problems.append(Problem(1, unit_column.field, f"this column is required ({choices})"))
+    known = spec.known_headers()
+    problems += [
+        Problem(1, name, "unknown column") for name in table.header if name and name not in known
+    ]
+    return problems, chosen
+
+
+def _read_row(
+    table: Table,
+    spec: ImportFormat,
+    units: dict[str, UnitColumn],
+    chosen: dict[str, str],
+    row: int,
+    cells: dict[str, str],
+    problems: list[Problem],
+) -> dict[str, Any]:
+    fields: dict[str, Any] = {}
+    for column in spec.columns:
+        text = cells.get(column.name, "")
+        if not text:
+            continue
+        try:
+            fields[column.name] = _cell_value(table, column.kind, text)
+        except ValueError as error:
+            problems.append(Problem(row, column.name, str(error)))
+    for name, header in chosen.items():
+        text = cells.get(header, "")
+        if not text:
+            continue
+        try:
+            fields[name] = number_in_program_unit(table, text, units[name], header)
+        except ValueError as error:
+            problems.append(Problem(row, header, str(error)))
+    return fields
+
+
+def _validated(
+    spec: ImportFormat,
+    chosen: dict[str, str],
+    row: int,
+    fields: dict[str, Any],
+    problems: list[Problem],
+) -> BaseModel | None:
+    try:
+        return spec.model.model_validate(fields)
+    except ValidationError as error:
+        for entry in error.errors():
+            name = str(entry["loc"][0]) if entry["loc"] else ""
+            message = entry["msg"].removeprefix("Value error, ")
+            problems.append(Problem(row, chosen.get(name, name), message))
+        return None
+
+
+def _plan(
+    content: bytes,
+    spec: ImportFormat,
+    kind: str,
+    prepare: Callable[[int, dict[str, Any], list[Problem]], tuple[int | None, int | None]],
+) -> ImportPlan[Any]:
+    """Read and check every row. `prepare` completes a row's fields in place from the
+    stored records and returns the ids of the record it updates and of its trap."""
+    plan: ImportPlan[Any] = ImportPlan(kind=kind)
+    try:
+        table = read_table(content)
+    except UnreadableFile as error:
+        plan.problems.append(Problem(1, "", str(error)))
+        return plan
+    plan.columns = table.header
+    header_problems, chosen = _header_problems(table, spec)
+    if header_problems:
+        plan.problems = header_problems
+        return plan
+    units = {unit_column.field: unit_column for unit_column, _ in spec.unit_columns}
+    # Each program unit -> the unit this file wrote it in, so messages speak the file's.
+    file_units = {
+        units[name].program_unit: units[name].headers[header] for name, header in chosen.items()
+    }
+    for row, cells in table.rows:
+        row_problems: list[Problem] = []
+        fields = _read_row(table, spec, units, chosen, row, cells, row_problems)
+        existing_id, trap_id = prepare(row, fields, row_problems)
+        data = None if row_problems else _validated(spec, chosen, row, fields, row_problems)
+        if data is not None and not row_problems:
+            plan.rows.append(PlannedRow(row, data, existing_id, trap_id, cells))
+        plan.problems += [
+            Problem(
+                problem.row,
+                chosen.get(problem.column, problem.column),
+                in_file_units(problem.message, file_units),
+            )
+            for problem in row_problems
+        ]
+    if not table.rows:
+        plan.problems.append(Problem(1, "", "the file has a header but no rows"))
+    return plan
+
+
+# The register -------------------------------------------------------------------------
+
+
+def plan_register(*, session: Session, site: Site, content: bytes) -> ImportPlan[TrapCreate]:
+    """Check a register file against the site: every problem, nothing written."""
+    stored = {
+        trap.tag: trap for trap in session.scalars(select(Trap).where(Trap.site_id == site.id))
+    }
+    seen: dict[str, int] = {}
+
+    def prepare(
+        row: int, fields: dict[str, Any], problems: list[Problem]
+    ) -> tuple[int | None, int | None]:
+        tag = fields.get("tag", "")
+        if tag in seen:
+            problems.append(Problem(row, "tag", f"tag '{tag}' is also on row {seen[tag]}"))
+        seen[tag] = row
+        for name in ("inlet_pressure_kpa_g", "return_pressure_kpa_g"):
+            if name in fields:
+                try:
+                    register.check_pressure(site, name, fields[name])
+                except FieldError as error:
+                    problems.append(Problem(row, name, str(error)))
+        known = stored.get(tag)
+        if known is not None:
+            # Columns the file leaves out keep their stored values.
+            for name in TrapCreate.model_fields:
+                fields.setdefault(name, getattr(known, name))
+            fields.pop("area_id", None)
+        return (known.id, known.id) if known is not None else (None, None)
+
+    return _plan(content, REGISTER, "register", prepare)
+
+
+def _area_ids(session: Session, site: Site, names: set[str]) -> dict[str, int]:
+    areas = {area.name: area for area in register.areas_of(session=session, site=site)}
+    order = max((area.route_order for area in areas.values()), default=0)
+    for name in sorted(names - areas.keys()):
+        order += 1
+        areas[name] = Area(site_id=site.id, name=name, route_order=order)
+        session.add(areas[name])
+    session.flush()
+    return {name: area.id for name, area in areas.items()}
+
+
+def apply_register(*, session: Session, site: Site, plan: ImportPlan[TrapCreate]) -> None:
+    """Write a clean register plan: new traps created, known tags updated, areas made."""
+    if not plan.clean:
+        raise ValueError("a plan with problems cannot be applied")
+    names = {row.cells.get("area", "") for row in plan.rows} - {""}
+    area_ids = _area_ids(session, site, names)
+    stored = {
+        trap.id: trap for trap in session.scalars(select(Trap).where(Trap.site_id == site.id))
+    }
+    for row in plan.rows:
+        values = row.data.model_dump()
+        area_name = row.cells.get("area")
+        if "area" in plan.columns:
+            values["area_id"] = area_ids.get(area_name) if area_name else None
+        elif row.existing_id is not None:
+            values.pop("area_id")
+        if row.existing_id is None:
+            session.add(Trap(site_id=site.id, **values))
+        else:
+            trap = stored[row.existing_id]
+            for name, value in values.items():
+                setattr(trap, name, value)
+    session.flush()
+
+
+# Findings -----------------------------------------------------------------------------
+
+
+def _trap_of(
+    row: int, fields: dict[str, Any], traps: dict[str, int], problems: list[Problem]
+) -> int | None:
+    tag = fields.pop("tag", "")
+    if tag not in traps:
+        problems.append(Problem(row, "tag", f"no trap tagged '{tag}' in the register"))
+        return None
+    return traps[tag]
+
+
+def _apply(
+    session: Session,
+    plan: ImportPlan[Any],
+    model: type[Finding] | type[Repair],
+    owner: Callable[[PlannedRow[Any]], dict[str, Any]],
+) -> None:
+    """Create the plan's new records and update the ones it names, in the session."""
+    if not plan.clean:
+        raise ValueError("a plan with problems cannot be applied")
+    for row in plan.rows:
+        values = row.data.model_dump()
+        if row.existing_id is None:
+            session.add(model(**owner(row), **values))
+        else:
+            record = session.get_one(model, row.existing_id)
+            for name, value in values.items():
+                setattr(record, name, value)
+    session.flush()
+
+
+def _trap_ids(session: Session, site_id: int) -> dict[str, int]:
+    return dict(session.execute(select(Trap.tag, Trap.id).where(Trap.site_id == site_id)).all())
+
+
+def plan_findings(*, session: Session, survey: Survey, content: bytes) -> ImportPlan[FindingCreate]:
+    """Check a findings file against the survey's register: every problem, nothing written."""
+    traps = _trap_ids(session, survey.site_id)
+    stored: dict[tuple[Any, ...], int] = {
+        (trap_id, tested_at): finding_id
+        for finding_id, trap_id, tested_at in session.execute(
+            select(Finding.id, Finding.trap_id, Finding.tested_at).where(
+                Finding.survey_id == survey.id
+            )
+        )
+    }
+
+    def prepare(
+        row: int, fields: dict[str, Any], problems: list[Problem]
+    ) -> tuple[int | None, int | None]:
+        trap_id = _trap_of(row, fields, traps, problems)
+        if trap_id is None:
+            return None, None
+        fields["trap_id"] = trap_id
+        return stored.get((trap_id, fields.get("tested_at"))), trap_id
+
+    return _plan(content, FINDINGS, "findings", prepare)
+
+
+def apply_findings(*, session: Session, survey: Survey, plan: ImportPlan[FindingCreate]) -> None:
+    _apply(session, plan, Finding, lambda row: {"survey_id": survey.id})
+
+
+# Repairs ------------------------------------------------------------------------------
+
+
+def plan_repairs(*, session: Session, site: Site, content: bytes) -> ImportPlan[RepairCreate]:
+    traps = _trap_ids(session, site.id)
+    stored: dict[tuple[Any, ...], int] = {
+        (trap_id, repaired_on, kind): repair_id
+        for repair_id, trap_id, repaired_on, kind in session.execute(
+            select(Repair.id, Repair.trap_id, Repair.repaired_on, Repair.kind)
+            .join(Trap, Trap.id == Repair.trap_id)
+            .where(Trap.site_id == site.id)
+        )
+    }
+
+    def prepare(
+        row: int, fields: dict[str, Any], problems: list[Problem]
+    ) -> tuple[int | None, int | None]:
+        trap_id = _trap_of(row, fields, traps, problems)
+        if trap_id is None:
+            return None, None
+        return stored.get((trap_id, fields.get("repaired_on"), fields.get("kind"))), trap_id
+
+    return _plan(content, REPAIRS, "repairs", prepare)
+
+
+def apply_repairs(*, session: Session, plan: ImportPlan[RepairCreate]) -> None:
+    _apply(session, plan, Repair, lambda row: {"trap_id": row.trap_id})

@@ -1,0 +1,1 @@
+"""The web layer: the FastAPI application, its JSON API and (later) its pages."""

@@ -1,0 +1,1 @@
+"""The JSON API, version 1: one router module per resource."""

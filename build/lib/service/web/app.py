@@ -1,0 +1,119 @@
+"""The application factory: one FastAPI app with the JSON API under /api/v1."""
+
+from collections.abc import AsyncIterator
+from contextlib import asynccontextmanager
+from typing import Any
+
+from fastapi import FastAPI
+from fastapi.exceptions import RequestValidationError
+from fastapi.staticfiles import StaticFiles
+from pydantic import BaseModel, ValidationError
+
+from service import __version__
+from service.accounts.sign_in_limits import SignInLimiter
+from service.reports.cache import RollupCache
+from service.settings import Settings
+from service.shipped import STATIC
+from service.store.database import Database
+from service.store.errors import ConflictError, FieldError, NotFoundError
+from service.web import errors, pages
+from service.web.access import CsrfRefused, NotPermitted, NotSignedIn
+from service.web.api import (
+    areas,
+    calc,
+    findings,
+    health,
+    repairs,
+    sites,
+    steam,
+    surveys,
+    transfer,
+    traps,
+)
+from service.web.headers import SecurityHeaders
+
+API_ROUTERS = (
+    health.router,
+    steam.router,
+    calc.router,
+    sites.router,
+    areas.router,
+    traps.router,
+    surveys.router,
+    findings.router,
+    repairs.router,
+    transfer.router,
+)
+
+
+class Refusal(BaseModel):
+    """Why a request was refused, in a sentence."""
+
+    detail: str
+
+
+# What any signed-in route may answer besides its own results (see service/web/access.py).
+REFUSALS: dict[int | str, dict[str, Any]] = {
+    400: {"model": Refusal, "description": "The body could not be parsed at all"},
+    401: {"model": Refusal, "description": "No live session or API token"},
+    403: {
+        "model": Refusal,
+        "description": "The role may not do this, or the CSRF token is missing",
+    },
+    404: {"model": Refusal, "description": "No such record among the user's sites"},
+    409: {"model": Refusal, "description": "The change would break a rule of the register"},
+}
+
+PAGE_ROUTERS = (
+    pages.accounts.router,
+    pages.audit.router,
+    pages.people.router,
+    pages.site.router,
+    pages.register.router,
+    pages.walk.router,
+    pages.calculator.router,
+    pages.transfer.router,
+)
+
+
+def create_app(database: Database | None = None, settings: Settings | None = None) -> FastAPI:
+    """A new Traptally application on `database` (default: the settings' database URL)."""
+    settings = settings or Settings.from_environment()
+    store = database or Database.at(settings.database_url)
+
+    @asynccontextmanager
+    async def lifespan(app: FastAPI) -> AsyncIterator[None]:
+        yield
+        store.dispose()
+
+    app = FastAPI(
+        title="Traptally",
+        version=__version__,
+        summary="Prices a steam-trap survey in steam, fuel, money and CO2.",
+        lifespan=lifespan,
+    )
+    app.state.database = store
+    app.state.rollups = RollupCache()
+    app.state.settings = settings
+    app.state.sign_in_limiter = SignInLimiter(
+        per_account=settings.sign_in_failures_per_account,
+        per_address=settings.sign_in_failures_per_address,
+    )
+    for router in API_ROUTERS:
+        app.include_router(
+            router, prefix="/api/v1", responses={} if router is health.router else REFUSALS
+        )
+    for router in PAGE_ROUTERS:
+        app.include_router(router)
+    app.mount("/static", StaticFiles(directory=STATIC), name="static")
+    app.add_middleware(SecurityHeaders)
+    app.add_exception_handler(RequestValidationError, errors.validation_error_as_422)
+    app.add_exception_handler(ValidationError, errors.pydantic_error_as_422)
+    app.add_exception_handler(FieldError, errors.field_error_as_422)
+    app.add_exception_handler(NotFoundError, errors.not_found_as_404)
+    app.add_exception_handler(ConflictError, errors.conflict_as_409)
+    app.add_exception_handler(ValueError, errors.value_error_as_422)
+    app.add_exception_handler(NotSignedIn, errors.not_signed_in)
+    app.add_exception_handler(NotPermitted, errors.forbidden_as_403)
+    app.add_exception_handler(CsrfRefused, errors.forbidden_as_403)
+    return app

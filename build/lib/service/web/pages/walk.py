@@ -1,0 +1,302 @@
+"""The survey walk: a survey's traps in route order, and the finding form, one trap at a
+time, built for a gloved technician on a tablet with poor Wi-Fi.
+
+Each form carries an idempotency key made when it is shown, so a save retried after
+a dropped connection stores one finding. After a save the next page reads the finding
+back from the database and says so: that is what "reached the server" means here.
+"""
+
+import datetime as dt
+import uuid
+from typing import Annotated, Any
+
+from fastapi import APIRouter, Query, Request
+from fastapi.responses import HTMLResponse, RedirectResponse, Response
+from pydantic import ValidationError
+from sqlalchemy.orm import Session
+
+from service.physics.trap_loss import CondensateDestination
+from service.physics.units import Dimension
+from service.reports.summary import SummaryRow, summary_rows
+from service.store import register, surveys
+from service.store.errors import ConflictError, FieldError, NotFoundError
+from service.store.models import Finding, Site, Survey, Trap
+from service.store.records import get
+from service.store.schemas import FindingCreate, TrapCreate
+from service.store.vocabulary import Application, RecommendedAction, TestMethod, TrapType
+from service.web.access import Reading, Recording
+from service.web.dependencies import Db, OptionalRecordIdQuery, RecordId, record_id
+from service.web.forms import Form
+from service.web.pages.templating import display_for, page
+
+router = APIRouter(include_in_schema=False)
+
+REMEMBERED = ("tested_by", "method")  # kept in a cookie from one save to the next
+COOKIE_PREFIX = "traptally_walk_"
+
+
+def _route(session: Session, site: Site, survey: Survey) -> list[SummaryRow]:
+    return [row for row in summary_rows(session, site, survey) if row.in_service]
+
+
+def _next_untested(route: list[SummaryRow], after_trap_id: int | None) -> SummaryRow | None:
+    """The first untested trap after this one in route order, wrapping round."""
+    start = next((i + 1 for i, row in enumerate(route) if row.trap_id == after_trap_id), 0)
+    for row in route[start:] + route[:start]:
+        if row.finding_id is None:
+            return row
+    return None
+
+
+@router.get("/sites/{site_id}/walk")
+def site_walk(site_id: RecordId, db: Db, viewer: Reading) -> Response:
+    with db.reading() as session:
+        site = viewer.get(session, Site, site_id)
+        survey = surveys.latest_survey(session=session, site=site)
+    target = f"/surveys/{survey.id}/walk" if survey else f"/sites/{site_id}#start-survey"
+    return RedirectResponse(target, status_code=303)
+
+
+ROUTE_PAGE = 60  # rows of the route on one page: light enough for a tablet on poor Wi-Fi
+
+
+@router.get("/surveys/{survey_id}/walk", response_class=HTMLResponse)
+def walk(
+    request: Request,
+    survey_id: RecordId,
+    db: Db,
+    viewer: Reading,
+    area: str | None = None,
+    offset: Annotated[int, Query(ge=0)] = 0,
+) -> HTMLResponse:
+    with db.reading() as session:
+        survey = viewer.get(session, Survey, survey_id)
+        site = viewer.get(session, Site, survey.site_id)
+        route = _route(session, site, survey)
+        areas = list(dict.fromkeys(row.area_name or "(no area)" for row in route))
+        shown = [row for row in route if area in (None, "", row.area_name or "(no area)")]
+        done = sum(row.finding_id is not None for row in route)
+        return page(
+            request,
+            "walk.html",
+            site=site,
+            survey=survey,
+            route=shown[offset : offset + ROUTE_PAGE],
+            areas=areas,
+            area=area or "",
+            done=done,
+            total=len(route),
+            shown=len(shown),
+            offset=offset,
+            page_size=ROUTE_PAGE,
+            next_trap=_next_untested(shown, None),
+        )
+
+
+def _finding_page(
+    request: Request,
+    session: Session,
+    survey: Survey,
+    trap: Trap,
+    form: Form,
+    *,
+    saved: Finding | None = None,
+    status_code: int = 200,
+) -> HTMLResponse:
+    site = get(session, Site, survey.site_id)
+    route = _route(session, site, survey)
+    position = next((i for i, row in enumerate(route) if row.trap_id == trap.id), None)
+    earlier = surveys.list_findings(session=session, trap=trap, limit=1000, offset=0).items
+    return page(
+        request,
+        "finding_form.html",
+        site=site,
+        survey=survey,
+        trap=trap,
+        form=form,
+        saved=saved,
+        saved_trap=get(session, Trap, saved.trap_id) if saved else None,
+        position=position,
+        total=len(route),
+        done=sum(r.finding_id is not None for r in route),
+        history=list(reversed(earlier))[:3],
+        methods=list(TestMethod),
+        actions=list(RecommendedAction),
+        status_code=status_code,
+    )
+
+
+def _blank_form(request: Request) -> Form:
+    typed = {name: request.cookies.get(COOKIE_PREFIX + name, "") for name in REMEMBERED}
+    typed["idempotency_key"] = uuid.uuid4().hex
+    # When the form was opened: the finding's moment unless one is typed. Sent with the
+    # form, so a save retried after a dropped connection is the very same finding.
+    typed["opened_at"] = dt.datetime.now(dt.UTC).replace(microsecond=0).isoformat()
+    typed.setdefault("method", "")
+    return Form(typed)
+
+
+def _trap_of_survey(session: Session, survey: Survey, trap_id: int) -> Trap:
+    trap = get(session, Trap, trap_id)
+    if trap.site_id != survey.site_id:
+        raise NotFoundError("trap", trap_id)
+    return trap
+
+
+@router.get("/surveys/{survey_id}/walk/traps/{trap_id}", response_class=HTMLResponse)
+def finding_form(
+    request: Request,
+    survey_id: RecordId,
+    trap_id: RecordId,
+    db: Db,
+    viewer: Reading,
+    saved: OptionalRecordIdQuery = None,
+) -> HTMLResponse:
+    with db.reading() as session:
+        survey = viewer.get(session, Survey, survey_id)
+        trap = _trap_of_survey(session, survey, trap_id)
+        stored = session.get(Finding, saved) if saved is not None else None
+        return _finding_page(request, session, survey, trap, _blank_form(request), saved=stored)
+
+
+def _finding_fields(form: Form, trap: Trap, site: Site) -> dict[str, Any]:
+    show = display_for(site)
+    moment = form.text("tested_at") or form.text("opened_at")
+    return {
+        "trap_id": trap.id,
+        "tested_at": moment or dt.datetime.now(dt.UTC).replace(microsecond=0),
+        "tested_by": form.text("tested_by"),
+        "method": form.text("method") or None,
+        "condition": form.text("condition") or None,
+        "loss_factor_override": form.number("loss_factor_override"),
+        "upstream_temperature_c": form.number("upstream_temperature", show, Dimension.TEMPERATURE),
+        "downstream_temperature_c": form.number(
+            "downstream_temperature", show, Dimension.TEMPERATURE
+        ),
+        "recommended_action": form.text("recommended_action") or RecommendedAction.NONE,
+        "notes": form.text("notes"),
+    }
+
+
+FORM_NAMES = {
+    "upstream_temperature_c": "upstream_temperature",
+    "downstream_temperature_c": "downstream_temperature",
+    "Idempotency-Key": "idempotency_key",
+}
+
+
+@router.post("/surveys/{survey_id}/walk/traps/{trap_id}", response_class=HTMLResponse)
+async def save_finding(
+    request: Request, survey_id: RecordId, trap_id: RecordId, db: Db, viewer: Recording
+) -> Response:
+    form = await Form.of(request)
+    key = form.text("idempotency_key") or None
+    with db.writing(viewer.actor) as session:
+        survey = viewer.get(session, Survey, survey_id)
+        trap = _trap_of_survey(session, survey, trap_id)
+        site = viewer.get(session, Site, survey.site_id)
+        fields = _finding_fields(form, trap, site)
+        finding: Finding | None = None
+        if form.ok:
+            try:
+                data = FindingCreate.model_validate(fields)
+                finding, _ = surveys.record_finding(
+                    session=session, survey=survey, data=data, idempotency_key=key
+                )
+            except (ValidationError, FieldError) as error:
+                form.absorb(error, FORM_NAMES)
+                if isinstance(error, FieldError) and error.field == surveys.IDEMPOTENCY_HEADER:
+                    # The first save reached the server before the answer was lost, and
+                    # this entry differs: a new key lets it be saved as the latest finding.
+                    form.typed["idempotency_key"] = uuid.uuid4().hex
+                    form.errors["idempotency_key"] = (
+                        "An earlier save of this trap reached the server before the "
+                        "connection dropped, with other values. Save again to record this "
+                        "entry as the latest finding."
+                    )
+        if finding is None:
+            return _finding_page(request, session, survey, trap, form, status_code=422)
+        session.flush()
+        following = _next_untested(_route(session, site, survey), trap.id)
+    target = (
+        f"/surveys/{survey_id}/walk/traps/{following.trap_id}?saved={finding.id}"
+        if following is not None
+        else f"/surveys/{survey_id}/walk?saved={finding.id}"
+    )
+    answer = RedirectResponse(target, status_code=303)
+    for name in REMEMBERED:
+        answer.set_cookie(
+            COOKIE_PREFIX + name,
+            form.text(name),
+            max_age=14 * 24 * 3600,
+            samesite="lax",
+            httponly=True,
+        )
+    return answer
+
+
+# A trap found in the field ------------------------------------------------------------
+
+
+def _new_trap_page(
+    request: Request, session: Session, survey: Survey, form: Form, status_code: int = 200
+) -> HTMLResponse:
+    site = get(session, Site, survey.site_id)
+    return page(
+        request,
+        "new_trap.html",
+        site=site,
+        survey=survey,
+        form=form,
+        areas=register.areas_of(session=session, site=site),
+        applications=list(Application),
+        trap_types=list(TrapType),
+        destinations=list(CondensateDestination),
+        status_code=status_code,
+    )
+
+
+@router.get("/surveys/{survey_id}/walk/new-trap", response_class=HTMLResponse)
+def new_trap_form(request: Request, survey_id: RecordId, db: Db, viewer: Recording) -> HTMLResponse:
+    with db.reading() as session:
+        survey = viewer.get(session, Survey, survey_id)
+        return _new_trap_page(request, session, survey, Form({}))
+
+
+@router.post("/surveys/{survey_id}/walk/new-trap", response_class=HTMLResponse)
+async def add_trap(request: Request, survey_id: RecordId, db: Db, viewer: Recording) -> Response:
+    form = await Form.of(request)
+    with db.writing(viewer.actor) as session:
+        survey = viewer.get(session, Survey, survey_id)
+        site = viewer.get(session, Site, survey.site_id)
+        show = display_for(site)
+        fields = {
+            "tag": form.text("tag"),
+            "area_id": record_id(form.text("area_id")),
+            "location": form.text("location"),
+            "application": form.text("application") or None,
+            "trap_type": form.text("trap_type") or None,
+            "orifice_diameter_mm": form.number("orifice_diameter", show, Dimension.LENGTH),
+            "inlet_pressure_kpa_g": form.number("inlet_pressure", show, Dimension.PRESSURE),
+            "return_pressure_kpa_g": form.number("return_pressure", show, Dimension.PRESSURE),
+            "condensate_destination": form.text("condensate_destination") or "closed_return",
+            "notes": form.text("notes") or "Added during the survey walk.",
+        }
+        trap: Trap | None = None
+        names = {
+            "orifice_diameter_mm": "orifice_diameter",
+            "inlet_pressure_kpa_g": "inlet_pressure",
+            "return_pressure_kpa_g": "return_pressure",
+        }
+        if form.ok:
+            try:
+                trap = register.create_trap(
+                    session=session, site=site, data=TrapCreate.model_validate(fields)
+                )
+            except (ValidationError, FieldError) as error:
+                form.absorb(error, names)
+            except ConflictError as error:
+                form.errors["tag"] = str(error)
+        if trap is None:
+            return _new_trap_page(request, session, survey, form, status_code=422)
+        return RedirectResponse(f"/surveys/{survey_id}/walk/traps/{trap.id}", status_code=303)
