@@ -6,6 +6,7 @@ FastAPI uses for its own validation errors:
 `{"detail": [{"loc": ["body", "field"], "msg": "...", "type": "value_error", "input": ...}]}`.
 """
 
+import logging
 import math
 from collections.abc import Iterator
 from contextlib import contextmanager
@@ -112,12 +113,21 @@ async def conflict_as_409(request: Request, error: Exception) -> Response:
     return JSONResponse(status_code=409, content={"detail": str(error)})
 
 
-async def value_error_as_422(request: Request, error: Exception) -> JSONResponse:
-    """A ValueError no route attached to a field still answers 422, naming the request."""
-    return JSONResponse(
-        status_code=422,
-        content={"detail": [problem(["body"], str(error), "value_error", None)]},
+LOG = logging.getLogger("traptally")
+
+
+async def unexpected_error_as_500(request: Request, error: Exception) -> Response:
+    """A fault of the program, not of the request: logged with its traceback and answered
+    500 without its details. Every write is one transaction, so nothing was stored. Input
+    errors never come here: routes tie them to their field (422)."""
+    LOG.error("unexpected error on %s %s", request.method, request.url.path, exc_info=error)
+    message = (
+        "The server could not finish this, and nothing was saved. The error is logged; "
+        "try again, or tell the person who runs Traptally."
     )
+    if _for_a_person(request):
+        return _error_page(request, 500, "Something went wrong", message)
+    return JSONResponse(status_code=500, content={"detail": message})
 
 
 async def not_signed_in(request: Request, error: Exception) -> Response:

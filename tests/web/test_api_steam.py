@@ -130,15 +130,35 @@ def test_state_at_the_saturation_temperature_is_refused_with_a_reason(client: Te
     assert "give quality or enthalpy" in answer.json()["detail"][0]["msg"]
 
 
-def test_a_value_error_no_route_caught_still_answers_422() -> None:
+def test_an_error_no_route_caught_is_a_logged_500_not_the_requests_fault(
+    caplog: pytest.LogCaptureFixture,
+) -> None:
+    # A ValueError no route tied to a field is the program's fault: blaming the request
+    # with a 422 would send the person looking for a typo that is not there.
     from service.web.app import create_app
 
     app = create_app()
 
-    @app.get("/boom")
+    @app.get("/api/v1/boom")
     def boom() -> None:
         raise ValueError("pressure out of range")
 
-    answer = TestClient(app).get("/boom")
-    assert answer.status_code == 422
-    assert answer.json()["detail"][0]["msg"] == "pressure out of range"
+    @app.get("/boom")
+    def page_boom() -> None:
+        raise ValueError("pressure out of range")
+
+    client = TestClient(app, raise_server_exceptions=False)
+    with caplog.at_level("ERROR", logger="traptally"):
+        answer = client.get("/api/v1/boom")
+        page = client.get("/boom")
+    assert answer.status_code == 500
+    assert "nothing was saved" in answer.json()["detail"]
+    assert "pressure out of range" not in answer.text
+    assert page.status_code == 500
+    assert page.headers["content-type"].startswith("text/html")
+    assert "Something went wrong" in page.text
+    assert [record.message for record in caplog.records] == [
+        "unexpected error on GET /api/v1/boom",
+        "unexpected error on GET /boom",
+    ]
+    assert "pressure out of range" in caplog.text
