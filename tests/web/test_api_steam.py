@@ -162,3 +162,24 @@ def test_an_error_no_route_caught_is_a_logged_500_not_the_requests_fault(
         "unexpected error on GET /boom",
     ]
     assert "pressure out of range" in caplog.text
+
+
+def test_a_field_error_no_form_caught_answers_a_page_to_a_person_and_json_to_the_api() -> None:
+    from service.store.errors import FieldError
+    from service.web.app import create_app
+
+    app = create_app()
+
+    def refuse() -> None:
+        raise FieldError("inlet_pressure_kpa_g", "3000 kPa(g) is off the saturation line")
+
+    app.get("/api/v1/refused")(refuse)
+    app.get("/refused")(refuse)
+    client = TestClient(app)
+    api = client.get("/api/v1/refused")
+    assert api.status_code == 422
+    assert api.json()["detail"][0]["loc"] == ["body", "inlet_pressure_kpa_g"]
+    page = client.get("/refused")
+    assert page.status_code == 422
+    assert page.headers["content-type"].startswith("text/html")
+    assert "inlet_pressure_kpa_g: 3000 kPa(g) is off the saturation line" in page.text
