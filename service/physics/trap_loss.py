@@ -62,15 +62,22 @@ class CondensateDestination(StrEnum):
 VENTED_RECEIVER_MAX_KPA_G = 5.0
 
 
+# Two pressures closer than this are the same pressure: a thousandth of a pascal, far below
+# any gauge, and far above the rounding of adding the atmosphere to a gauge reading (a
+# difference of 1e-16 kPa(g) vanishes in 101.325 kPa abs).
+PRESSURE_RESOLUTION_KPA = 1e-6
+
+
 def require_return_below_inlet(return_pressure_kpa_g: float, inlet_pressure_kpa_g: float) -> None:
-    """Raise ValueError unless condensate can leave: the return below the inlet [kPa(g)].
+    """Raise ValueError unless condensate can leave: the return below the inlet [kPa(g)]
+    by more than the pressure resolution.
 
     >>> require_return_below_inlet(300.0, 200.0)
     Traceback (most recent call last):
     ...
     ValueError: the return pressure (300 kPa(g)) must be below the inlet pressure ...
     """
-    if return_pressure_kpa_g >= inlet_pressure_kpa_g:
+    if return_pressure_kpa_g > inlet_pressure_kpa_g - PRESSURE_RESOLUTION_KPA:
         raise ValueError(
             f"the return pressure ({return_pressure_kpa_g:g} kPa(g)) must be below the inlet "
             f"pressure ({inlet_pressure_kpa_g:g} kPa(g)) for the trap to discharge"

@@ -37,7 +37,7 @@ CHECKS = [
     content_type_conformance,
     response_schema_conformance,
 ]
-EXAMPLES = 8
+EXAMPLES = int(os.environ.get("TRAPTALLY_FUZZ_EXAMPLES", "8"))  # more: a deeper search
 
 
 def _demo(database: Database) -> tuple[Any, dict[str, str]]:

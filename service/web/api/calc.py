@@ -31,6 +31,7 @@ from service.physics.orifice import FlowMethod, FlowRegime, live_steam
 from service.physics.spread import Spread
 from service.physics.trap_loss import (
     DEFAULT_DISCHARGE_COEFFICIENT,
+    PRESSURE_RESOLUTION_KPA,
     CondensateDestination,
     TrapLoss,
     TrapService,
@@ -355,7 +356,7 @@ class FlashRecoveryIn(SiteInput):
     @classmethod
     def _vessel_below_inlet(cls, value: float, info: ValidationInfo) -> float:
         inlet = info.data.get("inlet_pressure_kpa_g")
-        if inlet is not None and value >= inlet:
+        if inlet is not None and value > inlet - PRESSURE_RESOLUTION_KPA:
             raise ValueError(
                 f"the vessel pressure ({value:g} kPa(g)) must be below the traps' inlet "
                 f"pressure ({inlet:g} kPa(g)) for condensate to flash"

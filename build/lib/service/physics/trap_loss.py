@@ -62,6 +62,29 @@ class CondensateDestination(StrEnum):
 VENTED_RECEIVER_MAX_KPA_G = 5.0
 
 
+def require_return_below_inlet(return_pressure_kpa_g: float, inlet_pressure_kpa_g: float) -> None:
+    """Raise ValueError unless condensate can leave: the return below the inlet [kPa(g)].
+
+    >>> require_return_below_inlet(300.0, 200.0)
+    Traceback (most recent call last):
+    ...
+    ValueError: the return pressure (300 kPa(g)) must be below the inlet pressure ...
+    """
+    if return_pressure_kpa_g >= inlet_pressure_kpa_g:
+        raise ValueError(
+            f"the return pressure ({return_pressure_kpa_g:g} kPa(g)) must be below the inlet "
+            f"pressure ({inlet_pressure_kpa_g:g} kPa(g)) for the trap to discharge"
+        )
+
+
+def require_loss_factor_applies(condition: TrapCondition) -> None:
+    """Raise ValueError unless the condition wastes live steam, so a loss factor means something."""
+    if not wastes_live_steam(condition):
+        raise ValueError(
+            f"a loss factor applies only to a trap that wastes live steam, not to '{condition}'"
+        )
+
+
 def require_destination_fits_return(
     destination: CondensateDestination, return_pressure_kpa_g: float
 ) -> None:
@@ -158,10 +181,7 @@ def loss_factor_for(
     base = site_factor or DEFAULT_LOSS_FACTORS[condition]
     if override is None:
         return base
-    if not wastes_live_steam(condition):
-        raise ValueError(
-            f"a loss factor applies only to a trap that wastes live steam, not to '{condition}'"
-        )
+    require_loss_factor_applies(condition)
     if not 0.0 <= override <= 1.0:
         raise ValueError(f"loss factor {override:g} must lie from 0 to 1")
     return base.widened_to(override)

@@ -4,8 +4,9 @@ The same conversion `POST /api/v1/calc/trap-loss` makes from its request, so tha
 trap in a summary and the same trap priced by hand give the same figures.
 """
 
+import dataclasses
 from dataclasses import dataclass, field
-from typing import Protocol
+from typing import Any, Protocol
 
 from service.physics import steam_tables
 from service.physics.annual import Economics
@@ -69,22 +70,32 @@ def condensate_temperature_c(
     return None if subcooling_k is None else saturation_c - subcooling_k
 
 
+# The prices and factors a site and a trap-loss request both carry under these names.
+ECONOMICS_SETTINGS = tuple(
+    field.name
+    for field in dataclasses.fields(Economics)
+    if field.name not in {"steam_cost_per_tonne", "fuel_price_per_gj"}
+)
+
+
+def economics_from(
+    settings: object, *, steam_cost_per_tonne: float | None, fuel_price_per_gj: float | None
+) -> Economics:
+    """The core's economics from anything that carries its settings by name (a stored
+    site, a trap-loss request), with the one cost basis given."""
+    named: dict[str, Any] = {name: getattr(settings, name) for name in ECONOMICS_SETTINGS}
+    return Economics(
+        steam_cost_per_tonne=steam_cost_per_tonne, fuel_price_per_gj=fuel_price_per_gj, **named
+    )
+
+
 def economics_of(site: Site) -> Economics:
     """The site's prices, on the cost basis it chose."""
     steam_basis = site.cost_basis is CostBasis.STEAM_COST
-    return Economics(
+    return economics_from(
+        site,
         steam_cost_per_tonne=site.steam_cost_per_tonne if steam_basis else None,
         fuel_price_per_gj=None if steam_basis else site.fuel_price_per_gj,
-        water_and_treatment_cost_per_tonne=site.water_and_treatment_cost_per_tonne,
-        boiler_efficiency=site.boiler_efficiency,
-        makeup_water_temperature_c=site.makeup_water_temperature_c,
-        co2_kg_per_gj_fuel=site.co2_kg_per_gj_fuel,
-        fuel_heating_value=site.fuel_heating_value,
-        co2_factor_heating_value=site.co2_factor_heating_value,
-        net_to_gross_ratio=site.net_to_gross_ratio,
-        sewer_cost_per_tonne=site.sewer_cost_per_tonne,
-        drain_temperature_limit_c=site.drain_temperature_limit_c,
-        closed_return_pricing=site.closed_return_pricing,
     )
 
 

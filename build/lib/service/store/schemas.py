@@ -28,7 +28,7 @@ from service.physics.annual import (
     ClosedReturnPricing,
     HeatingValue,
 )
-from service.physics.conditions import DEFAULT_LOSS_FACTORS, TrapCondition, wastes_live_steam
+from service.physics.conditions import DEFAULT_LOSS_FACTORS, TrapCondition
 from service.physics.orifice import MAXIMUM_ORIFICE_MM
 from service.physics.pressure import STANDARD_ATMOSPHERE_KPA
 from service.physics.steam_tables import CRITICAL_PRESSURE_KPA
@@ -36,6 +36,8 @@ from service.physics.trap_loss import (
     DEFAULT_DISCHARGE_COEFFICIENT,
     CondensateDestination,
     require_destination_fits_return,
+    require_loss_factor_applies,
+    require_return_below_inlet,
 )
 from service.physics.units import UnitSystem
 from service.store.vocabulary import (
@@ -78,13 +80,21 @@ Fraction = Annotated[float, Field(ge=0.0, le=1.0)]
 DischargeCoefficient = Annotated[float, Field(gt=0.0, le=1.0)]
 Efficiency = Annotated[float, Field(ge=MIN_BOILER_EFFICIENCY, le=1.0)]
 HoursPerYear = Annotated[float, Field(ge=0.0, le=HOURS_IN_LEAP_YEAR)]
-GaugePressure = Annotated[float, Field(ge=-STANDARD_ATMOSPHERE_KPA, le=CRITICAL_PRESSURE_KPA)]
+GaugePressure = Annotated[
+    float,
+    Field(
+        ge=-STANDARD_ATMOSPHERE_KPA, le=CRITICAL_PRESSURE_KPA, description="Gauge pressure [kPa(g)]"
+    ),
+]
 OrificeDiameter = Annotated[float, Field(gt=0.0, le=MAXIMUM_ORIFICE_MM)]
 CondensateLoad = Annotated[float, Field(ge=0.0, le=100_000.0)]
 MakeupTemperature = Annotated[float, Field(ge=0.01, le=95.0)]
 Co2Factor = Annotated[float, Field(ge=0.0, le=200.0)]
 Elevation = Annotated[float, Field(ge=-500.0, le=5500.0)]
-Atmosphere = Annotated[float, Field(gt=50.0, le=110.0)]
+# 50 kPa is the standard atmosphere near 5 500 m; 110 kPa is above any sea-level high.
+Atmosphere = Annotated[
+    float, Field(gt=50.0, le=110.0, description="Local atmospheric pressure [kPa]")
+]
 Currency = Annotated[str, StringConstraints(pattern=r"^[A-Z]{3}$")]
 SurfaceTemperature = Annotated[float, Field(ge=-60.0, le=450.0)]
 SteamTemperature = Annotated[float, Field(ge=0.01, le=800.0)]  # IF97 region 2's range
@@ -308,11 +318,8 @@ class TrapCreate(StrictInput):
     @classmethod
     def _return_below_inlet(cls, value: float, info: ValidationInfo) -> float:
         inlet = info.data.get("inlet_pressure_kpa_g")
-        if inlet is not None and value >= inlet:
-            raise ValueError(
-                f"the return pressure ({value:g} kPa(g)) must be below the inlet pressure "
-                f"({inlet:g} kPa(g)) for the trap to discharge"
-            )
+        if inlet is not None:
+            require_return_below_inlet(value, inlet)
         return value
 
     @field_validator("condensate_destination")
@@ -424,10 +431,8 @@ class FindingCreate(StrictInput):
     @classmethod
     def _override_fits_condition(cls, value: float | None, info: ValidationInfo) -> Any:
         condition = info.data.get("condition")
-        if value is not None and condition is not None and not wastes_live_steam(condition):
-            raise ValueError(
-                f"a loss factor applies only to a trap that wastes live steam, not to '{condition}'"
-            )
+        if value is not None and condition is not None:
+            require_loss_factor_applies(condition)
         return value
 
 

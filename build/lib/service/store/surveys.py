@@ -10,9 +10,9 @@ from sqlalchemy.exc import IntegrityError
 from sqlalchemy.orm import Session
 
 from service.physics.conditions import TrapCondition
-from service.store.errors import ConflictError, FieldError
+from service.store.errors import ConflictError, FieldError, NotFoundError
 from service.store.models import Area, Finding, Repair, Site, Survey, Trap
-from service.store.records import Page, merged_input, paged
+from service.store.records import Page, get, merged_input, paged
 from service.store.schemas import FindingCreate, RepairCreate, SurveyCreate
 
 IDEMPOTENCY_HEADER = "Idempotency-Key"
@@ -67,6 +67,21 @@ def surveys_of(*, session: Session, site: Site) -> Sequence[Survey]:
 def latest_survey(*, session: Session, site: Site) -> Survey | None:
     surveys = surveys_of(session=session, site=site)
     return surveys[0] if surveys else None
+
+
+def survey_of_site(*, session: Session, site: Site, survey_id: int) -> Survey:
+    """The site's survey with this id; another site's survey is not found."""
+    survey = get(session, Survey, survey_id)
+    if survey.site_id != site.id:
+        raise NotFoundError("survey", survey_id)
+    return survey
+
+
+def chosen_survey(*, session: Session, site: Site, survey_id: int | None) -> Survey | None:
+    """The survey a summary, report or download asks for: by id, else the latest."""
+    if survey_id is None:
+        return latest_survey(session=session, site=site)
+    return survey_of_site(session=session, site=site, survey_id=survey_id)
 
 
 # Findings -----------------------------------------------------------------------------

@@ -69,6 +69,9 @@ PAGE_ROUTERS = (
     pages.audit.router,
     pages.people.router,
     pages.site.router,
+    pages.summary.router,
+    pages.downloads.router,
+    pages.settings.router,
     pages.register.router,
     pages.walk.router,
     pages.calculator.router,
@@ -112,7 +115,7 @@ def create_app(database: Database | None = None, settings: Settings | None = Non
     app.add_exception_handler(FieldError, errors.field_error_as_422)
     app.add_exception_handler(NotFoundError, errors.not_found_as_404)
     app.add_exception_handler(ConflictError, errors.conflict_as_409)
-    app.add_exception_handler(ValueError, errors.value_error_as_422)
+    app.add_exception_handler(Exception, errors.unexpected_error_as_500)
     app.add_exception_handler(NotSignedIn, errors.not_signed_in)
     app.add_exception_handler(NotPermitted, errors.forbidden_as_403)
     app.add_exception_handler(CsrfRefused, errors.forbidden_as_403)

@@ -6,6 +6,7 @@ FastAPI uses for its own validation errors:
 `{"detail": [{"loc": ["body", "field"], "msg": "...", "type": "value_error", "input": ...}]}`.
 """
 
+import logging
 import math
 from collections.abc import Iterator
 from contextlib import contextmanager
@@ -64,29 +65,32 @@ async def validation_error_as_422(request: Request, error: Exception) -> Respons
         problem(list(entry["loc"]), entry["msg"], entry["type"], entry.get("input"))
         for entry in error.errors()
     ]
+    return _unprocessable(request, detail)
+
+
+def _unprocessable(request: Request, detail: list[dict[str, Any]]) -> Response:
+    """A 422: JSON for the API; for a page, a page that says which field and why (a form
+    route keeps what was typed itself; this is the answer of last resort)."""
     if _for_a_person(request):
         lines = "; ".join(f"{entry['loc'][-1]}: {entry['msg']}" for entry in detail)
-        return _error_page(request, 422, "That address is not right", lines)
+        return _error_page(request, 422, "That was not saved", lines)
     return JSONResponse(status_code=422, content={"detail": detail})
 
 
-async def pydantic_error_as_422(request: Request, error: Exception) -> JSONResponse:
+async def pydantic_error_as_422(request: Request, error: Exception) -> Response:
     """A merged edit that fails validation in a store function: 422 on its fields."""
     assert isinstance(error, ValidationError)
     detail = [
         problem(["body", *entry["loc"]], entry["msg"], entry["type"], entry.get("input"))
         for entry in error.errors()
     ]
-    return JSONResponse(status_code=422, content={"detail": detail})
+    return _unprocessable(request, detail)
 
 
-async def field_error_as_422(request: Request, error: Exception) -> JSONResponse:
+async def field_error_as_422(request: Request, error: Exception) -> Response:
     assert isinstance(error, FieldError)
     where = "header" if error.field == IDEMPOTENCY_HEADER else "body"
-    return JSONResponse(
-        status_code=422,
-        content={"detail": [problem([where, error.field], str(error), "value_error", None)]},
-    )
+    return _unprocessable(request, [problem([where, error.field], str(error), "value_error", None)])
 
 
 def _for_a_person(request: Request) -> bool:
@@ -112,12 +116,21 @@ async def conflict_as_409(request: Request, error: Exception) -> Response:
     return JSONResponse(status_code=409, content={"detail": str(error)})
 
 
-async def value_error_as_422(request: Request, error: Exception) -> JSONResponse:
-    """A ValueError no route attached to a field still answers 422, naming the request."""
-    return JSONResponse(
-        status_code=422,
-        content={"detail": [problem(["body"], str(error), "value_error", None)]},
+LOG = logging.getLogger("traptally")
+
+
+async def unexpected_error_as_500(request: Request, error: Exception) -> Response:
+    """A fault of the program, not of the request: logged with its traceback and answered
+    500 without its details. Every write is one transaction, so nothing was stored. Input
+    errors never come here: routes tie them to their field (422)."""
+    LOG.error("unexpected error on %s %s", request.method, request.url.path, exc_info=error)
+    message = (
+        "The server could not finish this, and nothing was saved. The error is logged; "
+        "try again, or tell the person who runs Traptally."
     )
+    if _for_a_person(request):
+        return _error_page(request, 500, "Something went wrong", message)
+    return JSONResponse(status_code=500, content={"detail": message})
 
 
 async def not_signed_in(request: Request, error: Exception) -> Response:

@@ -25,7 +25,6 @@ from service.physics.conditions import (
     TrapCondition,
     category_of,
     discharges_condensate,
-    wastes_live_steam,
 )
 from service.physics.flash import flash_of_condensate, flash_recovery
 from service.physics.orifice import FlowMethod, FlowRegime, live_steam
@@ -36,10 +35,12 @@ from service.physics.trap_loss import (
     TrapLoss,
     TrapService,
     loss_factor_for,
+    require_loss_factor_applies,
+    require_return_below_inlet,
     trap_loss,
 )
 from service.reports.opportunities import FLASH_RECOVERY_CAUTION
-from service.reports.pricing import condensate_temperature_c
+from service.reports.pricing import condensate_temperature_c, economics_from
 from service.store.schemas import (
     Co2Factor,
     CondensateLoad,
@@ -47,6 +48,7 @@ from service.store.schemas import (
     DrainTemperatureLimit,
     Efficiency,
     Fraction,
+    GaugePressure,
     HoursPerYear,
     MakeupTemperature,
     Money,
@@ -57,7 +59,7 @@ from service.store.schemas import (
 )
 from service.store.vocabulary import TrapType
 from service.web.access import require
-from service.web.api.inputs import GaugePressure, SiteInput
+from service.web.api.inputs import SiteInput
 from service.web.errors import reported_against
 
 router = APIRouter(
@@ -66,13 +68,11 @@ router = APIRouter(
 
 
 def _return_below_inlet(value: float, info: ValidationInfo) -> float:
+    """Where condensate leaves (every condition but plugged and out of service)."""
     inlet = info.data.get("inlet_pressure_kpa_g")
     condition = info.data.get("condition", TrapCondition.WORKING)
-    if inlet is not None and value >= inlet and discharges_condensate(condition):
-        raise ValueError(
-            f"the return pressure ({value:g} kPa(g)) must be below the inlet pressure "
-            f"({inlet:g} kPa(g)) for condensate to discharge"
-        )
+    if inlet is not None and discharges_condensate(condition):
+        require_return_below_inlet(value, inlet)
     return value
 
 
@@ -156,10 +156,8 @@ class TrapLossIn(SiteInput):
     @classmethod
     def _loss_factor_fits_condition(cls, value: float | None, info: ValidationInfo) -> Any:
         condition = info.data.get("condition")
-        if value is not None and condition is not None and not wastes_live_steam(condition):
-            raise ValueError(
-                f"a loss factor applies only to a trap that wastes live steam, not to '{condition}'"
-            )
+        if value is not None and condition is not None:
+            require_loss_factor_applies(condition)
         return value
 
     @field_validator("fuel_price_per_gj")
@@ -219,19 +217,10 @@ class TrapLossIn(SiteInput):
         )
 
     def economics(self) -> Economics:
-        return Economics(
+        return economics_from(
+            self,
             steam_cost_per_tonne=self.steam_cost_per_tonne,
             fuel_price_per_gj=self.fuel_price_per_gj,
-            water_and_treatment_cost_per_tonne=self.water_and_treatment_cost_per_tonne,
-            boiler_efficiency=self.boiler_efficiency,
-            makeup_water_temperature_c=self.makeup_water_temperature_c,
-            co2_kg_per_gj_fuel=self.co2_kg_per_gj_fuel,
-            fuel_heating_value=self.fuel_heating_value,
-            co2_factor_heating_value=self.co2_factor_heating_value,
-            net_to_gross_ratio=self.net_to_gross_ratio,
-            sewer_cost_per_tonne=self.sewer_cost_per_tonne,
-            drain_temperature_limit_c=self.drain_temperature_limit_c,
-            closed_return_pricing=self.closed_return_pricing,
         )
 
 

@@ -1,6 +1,7 @@
 """Request fields shared by the steam and calculation endpoints.
 
-Every model forbids unknown fields and rejects NaN and infinity. A field whose name
+Every model is the store's `StrictInput`: unknown fields, NaN, infinity and NUL
+characters are refused, by the one rule the register and surveys use. A field whose name
 ends in `_kpa_g` is a gauge pressure: it is checked, together with the site's
 atmospheric pressure, against the saturation range of IAPWS-IF97, so the error names
 that field.
@@ -8,20 +9,12 @@ that field.
 
 from typing import Annotated, Any
 
-from pydantic import BaseModel, ConfigDict, Field, ValidationInfo, field_validator
+from pydantic import Field, ValidationInfo, field_validator
 
 from service.physics import steam_tables
 from service.physics.pressure import STANDARD_ATMOSPHERE_KPA, absolute_from_gauge
+from service.store.schemas import Atmosphere, StrictInput
 
-# 50 kPa is the standard atmosphere near 5 500 m; 110 kPa is above any sea-level high.
-AtmosphericPressure = Annotated[
-    float,
-    Field(
-        gt=50.0,
-        le=110.0,
-        description="Local atmospheric pressure [kPa], default one standard atmosphere",
-    ),
-]
 AbsolutePressure = Annotated[
     float,
     Field(
@@ -30,26 +23,14 @@ AbsolutePressure = Annotated[
         description="Absolute pressure [kPa(abs)], triple point to critical point",
     ),
 ]
-GaugePressure = Annotated[
-    float,
-    Field(
-        ge=-STANDARD_ATMOSPHERE_KPA,
-        le=steam_tables.CRITICAL_PRESSURE_KPA,
-        description="Gauge pressure [kPa(g)]",
-    ),
-]
-
-
-class StrictInput(BaseModel):
-    """A request body or query: unknown fields, NaN and infinity are refused."""
-
-    model_config = ConfigDict(extra="forbid", allow_inf_nan=False)
 
 
 class SiteInput(StrictInput):
     """A request with gauge pressures, read against the site's atmospheric pressure."""
 
-    atmospheric_pressure_kpa: AtmosphericPressure = STANDARD_ATMOSPHERE_KPA
+    atmospheric_pressure_kpa: Atmosphere = Field(
+        default=STANDARD_ATMOSPHERE_KPA, description="Default: one standard atmosphere"
+    )
 
     @field_validator("*")
     @classmethod

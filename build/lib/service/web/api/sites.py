@@ -4,7 +4,6 @@ from typing import Annotated
 
 from fastapi import APIRouter, Query, Response
 from sqlalchemy import select
-from sqlalchemy.orm import Session
 
 from service.physics.pressure import STANDARD_ATMOSPHERE_KPA
 from service.physics.steam_tables import CRITICAL_PRESSURE_KPA
@@ -14,11 +13,10 @@ from service.reports.pricing import SitePricing
 from service.reports.schemas import ComparisonOut, FlashRecoveryWhatIfOut, SummaryOut
 from service.reports.summary import site_summary
 from service.store import register
-from service.store.errors import NotFoundError
-from service.store.models import Site, Survey
-from service.store.records import get, paged
+from service.store.models import Site
+from service.store.records import paged
 from service.store.schemas import SiteCreate, SiteOut, SiteUpdate
-from service.store.surveys import latest_survey
+from service.store.surveys import chosen_survey, survey_of_site
 from service.web.access import Administering, Managing, Reading
 from service.web.dependencies import MAX_RECORD_ID, Db, PageOut, PagingDep, RecordId, RecordIdQuery
 from service.web.errors import reported_against
@@ -65,14 +63,6 @@ def delete_site(site_id: RecordId, db: Db, viewer: Administering) -> Response:
     return Response(status_code=204)
 
 
-def survey_of_site(session: Session, site: Site, survey_id: int) -> Survey:
-    """The site's survey with this id; another site's survey is not found."""
-    survey = get(session, Survey, survey_id)
-    if survey.site_id != site.id:
-        raise NotFoundError("survey", survey_id)
-    return survey
-
-
 @router.get("/sites/{site_id}/summary", summary="A survey priced and rolled up")
 def summary(
     site_id: RecordId,
@@ -85,11 +75,7 @@ def summary(
 ) -> SummaryOut:
     with db.reading() as session:
         site = viewer.get(session, Site, site_id)
-        survey = (
-            latest_survey(session=session, site=site)
-            if survey_id is None
-            else survey_of_site(session, site, survey_id)
-        )
+        survey = chosen_survey(session=session, site=site, survey_id=survey_id)
         return SummaryOut.of(site_summary(session=session, site=site, survey=survey))
 
 
@@ -115,11 +101,7 @@ def flash_recovery(
     cost basis as live steam displaced from make-up water."""
     with db.reading() as session:
         site = viewer.get(session, Site, site_id)
-        survey = (
-            latest_survey(session=session, site=site)
-            if survey_id is None
-            else survey_of_site(session, site, survey_id)
-        )
+        survey = chosen_survey(session=session, site=site, survey_id=survey_id)
         pricing = SitePricing.of(site)
         summary = site_summary(session=session, site=site, survey=survey, pricing=pricing)
         with reported_against("query", "vessel_pressure_kpa_g", typed=vessel_pressure_kpa_g):
@@ -138,8 +120,8 @@ def compare(
 ) -> ComparisonOut:
     with db.reading() as session:
         site = viewer.get(session, Site, site_id)
-        before = survey_of_site(session, site, from_survey)
-        after = survey_of_site(session, site, to_survey)
+        before = survey_of_site(session=session, site=site, survey_id=from_survey)
+        after = survey_of_site(session=session, site=site, survey_id=to_survey)
         return ComparisonOut.of(
             compare_surveys(session=session, site=site, before=before, after=after)
         )

@@ -14,8 +14,9 @@ from service.physics.states import (
     state_from_quality,
     state_from_temperature,
 )
+from service.store.schemas import GaugePressure
 from service.web.access import require
-from service.web.api.inputs import AbsolutePressure, GaugePressure, SiteInput
+from service.web.api.inputs import AbsolutePressure, SiteInput
 from service.web.errors import reported_against
 
 router = APIRouter(

@@ -17,9 +17,8 @@ from service.store.audit import Actor
 from service.store.csv_format import MAX_CSV_BYTES
 from service.store.database import Database
 from service.store.models import Site, Survey
-from service.store.surveys import latest_survey
+from service.store.surveys import chosen_survey
 from service.web.access import Managing, Reading
-from service.web.api.sites import survey_of_site
 from service.web.dependencies import Db, OptionalRecordIdQuery, RecordId
 
 router = APIRouter(tags=["import and export"])
@@ -263,10 +262,6 @@ def export_repair_list(
 ) -> Response:
     with db.reading() as session:
         site = viewer.get(session, Site, site_id)
-        survey = (
-            latest_survey(session=session, site=site)
-            if survey_id is None
-            else survey_of_site(session, site, survey_id)
-        )
+        survey = chosen_survey(session=session, site=site, survey_id=survey_id)
         summary = SummaryOut.of(site_summary(session=session, site=site, survey=survey))
     return _csv_response(repair_list_csv(summary), "repair-list.csv")
