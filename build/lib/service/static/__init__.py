@@ -1,1 +1,0 @@
-"""The stylesheets and the walk's script, shipped inside the package as `service.static`."""

@@ -1,1 +1,0 @@
-"""Domain services for storage: the data model, the database, and what reads and writes it."""

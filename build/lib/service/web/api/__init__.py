@@ -1,1 +1,0 @@
-"""The JSON API, version 1: one router module per resource."""
