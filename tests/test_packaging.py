@@ -48,7 +48,9 @@ def test_a_built_wheel_serves_pages_from_a_fresh_environment(tmp_path: Path) -> 
     shutil.copytree(
         ROOT,
         source,
-        ignore=shutil.ignore_patterns(".venv", ".git", "build", "*cache*", "*.db*", "bench"),
+        ignore=shutil.ignore_patterns(
+            ".venv", ".git", "build", "__pycache__", ".*_cache", ".hypothesis", "*.db*"
+        ),
     )
     subprocess.run(
         [sys.executable, "-m", "pip", "wheel", str(source), "--no-deps", "-q", "-w", tmp_path],
