@@ -88,65 +88,53 @@ def _flash(form: Form, show: Display) -> Any:
     )
 
 
-# The trap form's fields, by the trap-loss request's names.
-TRAP_FIELDS = {
-    "inlet_pressure_kpa_g": "inlet",
-    "return_pressure_kpa_g": "return",
-    "orifice_diameter_mm": "orifice",
-    "hours_per_year": "hours",
-    "steam_cost_per_tonne": "price",
-    "condensate_load_kg_h": "load",
-    "condition": "condition",
-    "condensate_destination": "destination",
-    "inlet_temperature_c": "inlet_temp",
-    "steam_temperature_c": "steam_temp",
-    "atmospheric_pressure_kpa": "atmosphere",
-}
+# A form's number fields: (the request's field, the form's field, its dimension or None).
+NumberFields = list[tuple[str, str, Dimension | None]]
+
+TRAP_NUMBERS: NumberFields = [
+    ("inlet_pressure_kpa_g", "inlet", Dimension.PRESSURE),
+    ("return_pressure_kpa_g", "return", Dimension.PRESSURE),
+    ("orifice_diameter_mm", "orifice", Dimension.LENGTH),
+    ("hours_per_year", "hours", None),
+    ("steam_cost_per_tonne", "price", Dimension.PRICE_PER_MASS),
+    ("condensate_load_kg_h", "load", Dimension.MASS_FLOW),
+    ("inlet_temperature_c", "inlet_temp", Dimension.TEMPERATURE),
+    ("steam_temperature_c", "steam_temp", Dimension.TEMPERATURE),
+    ("atmospheric_pressure_kpa", "atmosphere", None),
+]
+RECOVERY_NUMBERS: NumberFields = [
+    ("condensate_load_kg_h", "fr_load", Dimension.MASS_FLOW),
+    ("inlet_pressure_kpa_g", "fr_inlet", Dimension.PRESSURE),
+    ("vessel_pressure_kpa_g", "fr_vessel", Dimension.PRESSURE),
+    ("hours_per_year", "fr_hours", None),
+    ("steam_energy_price_per_gj", "fr_price", Dimension.PRICE_PER_ENERGY),
+    ("makeup_water_temperature_c", "fr_makeup", Dimension.TEMPERATURE),
+    ("atmospheric_pressure_kpa", "atmosphere", None),
+]
+
+
+def _numbers(form: Form, show: Display, fields: NumberFields) -> dict[str, Any]:
+    """The form's numbers by the request's field names, read in the shown units."""
+    return {field: form.number(name, show, dimension) for field, name, dimension in fields}
 
 
 def _trap(form: Form, show: Display) -> Any:
     """One trap priced exactly as POST /api/v1/calc/trap-loss prices it."""
     typed = {
-        "inlet_pressure_kpa_g": form.number("inlet", show, Dimension.PRESSURE),
-        "return_pressure_kpa_g": form.number("return", show, Dimension.PRESSURE),
-        "orifice_diameter_mm": form.number("orifice", show, Dimension.LENGTH),
-        "hours_per_year": form.number("hours"),
-        "steam_cost_per_tonne": form.number("price", show, Dimension.PRICE_PER_MASS),
-        "condensate_load_kg_h": form.number("load", show, Dimension.MASS_FLOW),
+        **_numbers(form, show, TRAP_NUMBERS),
         "condition": form.text("condition") or "blow_through",
         "condensate_destination": form.text("destination") or "closed_return",
-        "inlet_temperature_c": form.number("inlet_temp", show, Dimension.TEMPERATURE),
-        "steam_temperature_c": form.number("steam_temp", show, Dimension.TEMPERATURE),
-        "atmospheric_pressure_kpa": form.number("atmosphere"),
     }
-    request = _validated(form, TrapLossIn, typed, TRAP_FIELDS)
+    names = {"condition": "condition", "condensate_destination": "destination"}
+    request = _validated(form, TrapLossIn, typed, TRAP_NUMBERS, names)
     return None if request is None else trap_loss(request.trap_service(), request.economics())
-
-
-# The flash-recovery form's fields, by the request's names.
-RECOVERY_FIELDS = {
-    "condensate_load_kg_h": "fr_load",
-    "inlet_pressure_kpa_g": "fr_inlet",
-    "vessel_pressure_kpa_g": "fr_vessel",
-    "hours_per_year": "fr_hours",
-    "steam_energy_price_per_gj": "fr_price",
-    "makeup_water_temperature_c": "fr_makeup",
-    "atmospheric_pressure_kpa": "atmosphere",
-}
 
 
 def _flash_recovery(form: Form, show: Display) -> Any:
     """Flash recovered at a vessel, priced exactly as POST /api/v1/calc/flash-recovery."""
-    typed = {
-        "condensate_load_kg_h": form.number("fr_load", show, Dimension.MASS_FLOW),
-        "inlet_pressure_kpa_g": form.number("fr_inlet", show, Dimension.PRESSURE),
-        "vessel_pressure_kpa_g": form.number("fr_vessel", show, Dimension.PRESSURE),
-        "hours_per_year": form.number("fr_hours"),
-        "steam_energy_price_per_gj": form.number("fr_price", show, Dimension.PRICE_PER_ENERGY),
-        "makeup_water_temperature_c": form.number("fr_makeup", show, Dimension.TEMPERATURE),
-        "atmospheric_pressure_kpa": form.number("atmosphere"),
-    }
-    request = _validated(form, FlashRecoveryIn, typed, RECOVERY_FIELDS)
+    request = _validated(
+        form, FlashRecoveryIn, _numbers(form, show, RECOVERY_NUMBERS), RECOVERY_NUMBERS
+    )
     return None if request is None else request.answer()
 
 
@@ -154,9 +142,13 @@ Request_ = TypeVar("Request_", bound=BaseModel)
 
 
 def _validated(
-    form: Form, model: type[Request_], typed: dict[str, Any], fields: dict[str, str]
+    form: Form,
+    model: type[Request_],
+    typed: dict[str, Any],
+    numbers: NumberFields,
+    other_names: dict[str, str] | None = None,
 ) -> Request_ | None:
-    """The request a form's numbers make, or None with the errors beside its fields."""
+    """The request a form's fields make, or None with the errors beside its fields."""
     if not form.ok:
         return None
     try:
@@ -164,7 +156,8 @@ def _validated(
             {name: value for name, value in typed.items() if value is not None}
         )
     except ValidationError as error:
-        form.absorb(error, fields)
+        names = {field: name for field, name, _ in numbers} | (other_names or {})
+        form.absorb(error, names)
         return None
 
 
