@@ -63,7 +63,8 @@ def register_file(traps: int, seed: int = 11) -> bytes:
                 trap_type,
                 orifice_mm,
                 inlet,
-                chooser.choice([0.0, inlet * 0.1]),
+                # A vented receiver is open to atmosphere; a return may be pressurised.
+                0.0 if destination == "vented_receiver" else chooser.choice([0.0, inlet * 0.1]),
                 destination,
                 chooser.choice([10.0, 40.0, 150.0]),
             ]

@@ -8,7 +8,7 @@ import pytest
 
 from service.settings import DATABASE_URL_VARIABLE, PREFIX, Settings
 from service.store.schemas import SiteCreate
-from service.web.api.calc import TrapLossIn
+from service.web.calculations import TrapLossIn
 
 README = (Path(__file__).resolve().parents[1] / "README.md").read_text(encoding="utf-8")
 SETTINGS_SECTION = README.split("## Settings", 1)[1].split("\n## ", 1)[0]

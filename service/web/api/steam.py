@@ -16,8 +16,8 @@ from service.physics.states import (
 )
 from service.store.schemas import GaugePressure
 from service.web.access import require
-from service.web.api.inputs import AbsolutePressure, SiteInput
 from service.web.errors import reported_against
+from service.web.inputs import AbsolutePressure, SiteInput
 
 router = APIRouter(
     prefix="/steam", tags=["steam"], dependencies=[Depends(require(Permission.READ))]

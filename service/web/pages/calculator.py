@@ -18,7 +18,7 @@ from service.physics.states import state_from_enthalpy, state_from_quality, stat
 from service.physics.trap_loss import CondensateDestination, trap_loss
 from service.physics.units import Dimension, UnitSystem
 from service.web.access import require
-from service.web.api.calc import FlashRecoveryIn, TrapLossIn
+from service.web.calculations import FlashRecoveryIn, TrapLossIn
 from service.web.display import Display
 from service.web.forms import Form
 from service.web.pages.templating import page
