@@ -32,7 +32,7 @@ test: lint
 
 # The everyday run: no browser, load, fuzzing or PostgreSQL tests, no coverage (under a minute).
 check: lint
-	$(BIN)/pytest -q -m "not slow and not browser and not load and not postgres"
+	$(BIN)/pytest -q -n auto -m "not slow and not browser and not load and not postgres"
 
 fix: install
 	$(BIN)/ruff check --fix .

@@ -78,6 +78,7 @@ def emptied(database: Database) -> Database:
 MARKERS_BY_PATH = {
     "tests/browser/": "browser",
     "tests/web/test_concurrency.py": "load",
+    "tests/web/test_access.py": "slow",  # the whole role x route table: 410 requests
     "tests/web/test_api_fuzz.py": "slow",
     "tests/web/test_form_fuzz.py": "slow",
 }
