@@ -102,6 +102,8 @@ LABELS: dict[str, str] = {
     "closed_return": "Closed return",
     "vented_receiver": "Vented receiver",
     "drain": "Drain",
+    "napier": "Napier's equation",
+    "napier_nozzle_corrected": "Napier's equation, corrected by the IF97 nozzle",
     "steam_cost": "Steam cost per tonne",
     "fuel_price": "Fuel price per GJ",
     "lhv": "Net (lower) heating value, LHV",
