@@ -54,8 +54,11 @@ DEFAULT_LOSS_FACTORS: dict[TrapCondition, Spread] = {
     TrapCondition.NOT_ACCESSIBLE: NO_LOSS,
 }
 
-_WASTES_LIVE_STEAM = frozenset(
-    {TrapCondition.LEAKING, TrapCondition.BLOW_THROUGH, TrapCondition.RAPID_CYCLING}
+# In the order a site's settings list their loss factors.
+LIVE_STEAM_CONDITIONS = (
+    TrapCondition.LEAKING,
+    TrapCondition.BLOW_THROUGH,
+    TrapCondition.RAPID_CYCLING,
 )
 _FLOODING_RISK = frozenset({TrapCondition.PLUGGED, TrapCondition.FLOODED})
 # Traps that pass no condensate: failed shut, or valved out.
@@ -74,7 +77,7 @@ RISK_NOTES: dict[TrapCondition, str] = {
 
 def wastes_live_steam(condition: TrapCondition) -> bool:
     """True where the condition passes live steam (leaking, blow-through, rapid cycling)."""
-    return condition in _WASTES_LIVE_STEAM
+    return condition in LIVE_STEAM_CONDITIONS
 
 
 def is_flooding_risk(condition: TrapCondition) -> bool:

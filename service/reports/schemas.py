@@ -11,6 +11,7 @@ from pydantic import BaseModel, ConfigDict, Field
 
 from service.physics.annual import YearlyLoss
 from service.physics.conditions import FindingCategory, TrapCondition
+from service.physics.spread import Spread
 from service.physics.trap_loss import CondensateDestination
 from service.reports.compare import Change, SurveyComparison, TrapChange
 from service.reports.summary import PricedTrap, SiteSummary, Tally
@@ -82,10 +83,25 @@ RANGED_FIGURES = {
 }
 
 
-def ranged_fields(typical: YearlyLoss, low: YearlyLoss, high: YearlyLoss) -> dict[str, Any]:
-    """A yearly loss and its range as `name`, `name_low` and `name_high` fields."""
+def spread_fields(name: str, spread: Spread) -> dict[str, float]:
+    """A figure and its range as `name`, `name_low` and `name_high` fields.
+
+    >>> spread_fields("loss_factor", Spread(0.25, 0.1, 0.4))
+    {'loss_factor': 0.25, 'loss_factor_low': 0.1, 'loss_factor_high': 0.4}
+    """
+    return {name: spread.typical, f"{name}_low": spread.low, f"{name}_high": spread.high}
+
+
+def ranged_fields(
+    typical: YearlyLoss,
+    low: YearlyLoss,
+    high: YearlyLoss,
+    figures: dict[str, str] = RANGED_FIGURES,
+) -> dict[str, Any]:
+    """A yearly loss and its range as `name`, `name_low` and `name_high` fields, for each
+    output name -> figure of `YearlyLoss` in `figures`."""
     fields: dict[str, Any] = {}
-    for name, figure in RANGED_FIGURES.items():
+    for name, figure in figures.items():
         fields[name] = getattr(typical, figure)
         fields[f"{name}_low"] = getattr(low, figure)
         fields[f"{name}_high"] = getattr(high, figure)
@@ -190,15 +206,9 @@ class PricedTrapOut(BaseModel):
             hours_per_year=service.hours_per_year,
             condensate_load_kg_h=service.condensate_load_kg_h,
             condensate_destination=service.destination,
-            discharge_coefficient=service.discharge_coefficient.typical,
-            discharge_coefficient_low=service.discharge_coefficient.low,
-            discharge_coefficient_high=service.discharge_coefficient.high,
-            loss_factor=loss.loss_factor.typical,
-            loss_factor_low=loss.loss_factor.low,
-            loss_factor_high=loss.loss_factor.high,
-            steam_loss_kg_h=loss.steam_loss_kg_h.typical,
-            steam_loss_kg_h_low=loss.steam_loss_kg_h.low,
-            steam_loss_kg_h_high=loss.steam_loss_kg_h.high,
+            **spread_fields("discharge_coefficient", service.discharge_coefficient),
+            **spread_fields("loss_factor", loss.loss_factor),
+            **spread_fields("steam_loss_kg_h", loss.steam_loss_kg_h),
             steam_temperature_c=service.steam_temperature_c,
             condensate_temperature_c=service.condensate_temperature_c,
             **ranged_fields(loss.live_steam, loss.live_steam_low, loss.live_steam_high),

@@ -29,24 +29,29 @@ class UnitColumn:
     headers: dict[str, str]  # header -> unit symbol
 
 
-def _unit_column(base: str, units: dict[str, str]) -> UnitColumn:
-    """A quantity named `base`, its headers `base_suffix` for each suffix -> unit symbol.
-    The first unit is the program's, and its header is the model's field name."""
-    headers = {f"{base}_{suffix}": symbol for suffix, symbol in units.items()}
-    first = next(iter(headers))
-    return UnitColumn(first, headers[first], headers)
+# The program's unit, by the suffix a field's name ends in -> every header suffix a file
+# may use for it, and that unit's symbol. The first is the program's own.
+UNITS_BY_SUFFIX: dict[str, dict[str, str]] = {
+    "kpa_g": {"kpa_g": "kPa(g)", "bar_g": "bar(g)", "psig": "psig"},
+    "c": {"c": "°C", "f": "°F"},
+    "mm": {"mm": "mm", "in": "in"},
+    "kg_h": {"kg_h": "kg/h", "lb_h": "lb/h"},
+}
 
 
-def pressure_column(base: str) -> UnitColumn:
-    return _unit_column(base, {"kpa_g": "kPa(g)", "bar_g": "bar(g)", "psig": "psig"})
+def unit_column(field_name: str) -> UnitColumn | None:
+    """The column of a field whose name ends in its unit (`inlet_pressure_kpa_g`), read
+    from any of that quantity's headers; None for a field without a unit in its name.
 
-
-def temperature_column(base: str) -> UnitColumn:
-    return _unit_column(base, {"c": "°C", "f": "°F"})
-
-
-ORIFICE = _unit_column("orifice_diameter", {"mm": "mm", "in": "in"})
-LOAD = _unit_column("condensate_load", {"kg_h": "kg/h", "lb_h": "lb/h"})
+    >>> list(unit_column("steam_temperature_c").headers)
+    ['steam_temperature_c', 'steam_temperature_f']
+    """
+    for suffix, units in UNITS_BY_SUFFIX.items():
+        base = field_name.removesuffix(f"_{suffix}")
+        if base != field_name:
+            headers = {f"{base}_{header}": symbol for header, symbol in units.items()}
+            return UnitColumn(field_name, units[suffix], headers)
+    return None
 
 
 @dataclass(frozen=True, slots=True)

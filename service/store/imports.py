@@ -12,7 +12,9 @@ The columns are listed in README.md, "Importing and exporting".
 import datetime as dt
 from collections.abc import Callable
 from dataclasses import dataclass, field
-from typing import Any, Generic, TypeVar
+from enum import StrEnum
+from types import NoneType
+from typing import Any, Generic, TypeVar, get_args
 
 from pydantic import BaseModel, ValidationError
 from sqlalchemy import select
@@ -20,8 +22,6 @@ from sqlalchemy.orm import Session
 
 from service.store import register
 from service.store.csv_format import (
-    LOAD,
-    ORIFICE,
     Problem,
     Table,
     UnitColumn,
@@ -29,16 +29,15 @@ from service.store.csv_format import (
     in_file_units,
     number,
     number_in_program_unit,
-    pressure_column,
     read_table,
-    temperature_column,
+    unit_column,
     unit_header,
     word,
     yes_or_no,
 )
 from service.store.errors import FieldError
 from service.store.models import Area, Finding, Repair, Site, Survey, Trap
-from service.store.schemas import FindingCreate, RepairCreate, TrapCreate
+from service.store.schemas import FindingCreate, RepairCreate, TrapCreate, unconstrained
 
 Data = TypeVar("Data", bound=BaseModel)
 
@@ -62,74 +61,62 @@ class Column:
     required: bool = False
 
 
+def _kind_of(annotation: Any) -> str:
+    """How a cell is read for a field of this type (an optional field's, its type's)."""
+    plain = unconstrained(annotation)
+    kind = next((kind for kind in get_args(plain) if kind is not NoneType), plain)
+    if issubclass(kind, StrEnum):
+        return WORD
+    for python_type, cell_kind in (
+        (bool, YES_NO),  # before int: a bool is an int
+        (int, INTEGER),
+        (float, NUMBER),
+        (dt.datetime, MOMENT),  # before date: a datetime is a date
+        (dt.date, DATE),
+        (str, TEXT),
+    ):
+        if issubclass(kind, python_type):
+            return cell_kind
+    raise TypeError(f"no column kind for {annotation!r}")
+
+
 @dataclass(frozen=True, slots=True)
 class ImportFormat:
-    """The columns a kind of file has, and which ones pick out a record to update."""
+    """The columns of a kind of file: the model's fields, each a column named for it (a
+    quantity's in any of its units), after the columns that name its trap or area."""
 
-    columns: tuple[Column, ...]
-    unit_columns: tuple[tuple[UnitColumn, bool], ...]  # (column, required)
     model: type[BaseModel]
-    extra_columns: tuple[str, ...] = ()  # read, but not fields of the model (e.g. area)
+    naming_columns: tuple[Column, ...] = ()  # read into the row, not the model's (a tag)
+    extra_columns: tuple[str, ...] = ()  # known, read by the caller (a register's area)
+    without: tuple[str, ...] = ()  # fields those columns stand for (trap_id, area_id)
+    columns: tuple[Column, ...] = field(init=False)
+    unit_columns: tuple[tuple[UnitColumn, bool], ...] = field(init=False)  # (column, required)
+
+    def __post_init__(self) -> None:
+        columns = list(self.naming_columns)
+        unit_columns = []
+        for name, info in self.model.model_fields.items():
+            if name in self.without:
+                continue
+            quantity = unit_column(name)
+            if quantity is not None:
+                unit_columns.append((quantity, info.is_required()))
+            else:
+                columns.append(Column(name, _kind_of(info.annotation), info.is_required()))
+        object.__setattr__(self, "columns", tuple(columns))
+        object.__setattr__(self, "unit_columns", tuple(unit_columns))
 
     def known_headers(self) -> set[str]:
         headers = {column.name for column in self.columns} | set(self.extra_columns)
-        for unit_column, _ in self.unit_columns:
-            headers |= set(unit_column.headers)
+        for quantity, _ in self.unit_columns:
+            headers |= set(quantity.headers)
         return headers
 
 
-REGISTER = ImportFormat(
-    columns=(
-        Column("tag", TEXT, required=True),
-        Column("location", TEXT),
-        Column("route_position", INTEGER),
-        Column("application", WORD, required=True),
-        Column("trap_type", WORD, required=True),
-        Column("connection_size", TEXT),
-        Column("condensate_destination", WORD),
-        Column("hours_per_year", NUMBER),
-        Column("in_service", YES_NO),
-        Column("installed_on", DATE),
-        Column("notes", TEXT),
-    ),
-    unit_columns=(
-        (ORIFICE, True),
-        (pressure_column("inlet_pressure"), True),
-        (pressure_column("return_pressure"), True),
-        (LOAD, False),
-        (temperature_column("steam_temperature"), False),
-    ),
-    model=TrapCreate,
-    extra_columns=("area",),
-)
-FINDINGS = ImportFormat(
-    columns=(
-        Column("tag", TEXT, required=True),
-        Column("tested_at", MOMENT, required=True),
-        Column("tested_by", TEXT),
-        Column("method", WORD, required=True),
-        Column("condition", WORD, required=True),
-        Column("loss_factor_override", NUMBER),
-        Column("recommended_action", WORD),
-        Column("notes", TEXT),
-    ),
-    unit_columns=(
-        (temperature_column("upstream_temperature"), False),
-        (temperature_column("downstream_temperature"), False),
-    ),
-    model=FindingCreate,
-)
-REPAIRS = ImportFormat(
-    columns=(
-        Column("tag", TEXT, required=True),
-        Column("repaired_on", DATE, required=True),
-        Column("kind", WORD, required=True),
-        Column("cost", NUMBER),
-        Column("notes", TEXT),
-    ),
-    unit_columns=(),
-    model=RepairCreate,
-)
+TAG = Column("tag", TEXT, required=True)
+REGISTER = ImportFormat(TrapCreate, extra_columns=("area",), without=("area_id",))
+FINDINGS = ImportFormat(FindingCreate, naming_columns=(TAG,), without=("trap_id",))
+REPAIRS = ImportFormat(RepairCreate, naming_columns=(TAG,))
 
 
 @dataclass(frozen=True, slots=True)
@@ -200,17 +187,17 @@ def _header_problems(table: Table, spec: ImportFormat) -> tuple[list[Problem], d
         if column.required and column.name not in table.header
     ]
     chosen: dict[str, str] = {}
-    for unit_column, required in spec.unit_columns:
+    for quantity, required in spec.unit_columns:
         try:
-            header = unit_header(table, unit_column)
+            header = unit_header(table, quantity)
         except UnreadableFile as error:
-            problems.append(Problem(1, unit_column.field, str(error)))
+            problems.append(Problem(1, quantity.field, str(error)))
             continue
         if header is not None:
-            chosen[unit_column.field] = header
+            chosen[quantity.field] = header
         elif required:
-            choices = " or ".join(unit_column.headers)
-            problems.append(Problem(1, unit_column.field, f"this column is required ({choices})"))
+            choices = " or ".join(quantity.headers)
+            problems.append(Problem(1, quantity.field, f"this column is required ({choices})"))
     known = spec.known_headers()
     problems += [
         Problem(1, name, "unknown column") for name in table.header if name and name not in known
@@ -283,7 +270,7 @@ def _plan(
     if header_problems:
         plan.problems = header_problems
         return plan
-    units = {unit_column.field: unit_column for unit_column, _ in spec.unit_columns}
+    units = {quantity.field: quantity for quantity, _ in spec.unit_columns}
     # Each program unit -> the unit this file wrote it in, so messages speak the file's.
     file_units = {
         units[name].program_unit: units[name].headers[header] for name, header in chosen.items()

@@ -6,7 +6,12 @@ pressure) are checked by the store functions, which name the field just the same
 """
 
 import datetime as dt
-from typing import Annotated, Any, Self
+import functools
+import inspect
+import operator
+from collections.abc import Callable
+from types import UnionType
+from typing import Annotated, Any, Self, Union, get_args, get_origin
 
 from pydantic import (
     BaseModel,
@@ -17,6 +22,7 @@ from pydantic import (
     field_validator,
     model_validator,
 )
+from pydantic.fields import FieldInfo
 
 from service.physics.annual import (
     DEFAULT_BOILER_EFFICIENCY,
@@ -63,10 +69,77 @@ class StrictInput(BaseModel):
         return value
 
 
+def _take_fields(
+    model: type[BaseModel],
+    into: type[BaseModel],
+    without: tuple[str, ...],
+    derive: Callable[[FieldInfo], tuple[Any, FieldInfo]],
+) -> None:
+    """Give the class being made (`into`) each field of `model`, derived by `derive`.
+
+    Runs from `__init_subclass__`, before pydantic collects the new class's fields, so
+    they are validated and documented as if written out. Fields the class declares itself
+    win; they come first, then the model's in its order.
+    """
+    own: dict[str, Any] = inspect.get_annotations(into)
+    annotations = {name: kind for name, kind in own.items() if name not in model.model_fields}
+    for name, info in model.model_fields.items():
+        if name in without:
+            continue
+        if name in own:
+            annotations[name] = own[name]
+            continue
+        annotations[name], field = derive(info)
+        setattr(into, name, field)
+    into.__annotations__ = annotations
+
+
+def unconstrained(annotation: Any) -> Any:
+    """`Annotated[float, Field(ge=0)] | None` -> `float | None`: a stored value is shown as
+    it is, even one stored before a limit was tightened."""
+    if get_origin(annotation) is Annotated:
+        return unconstrained(get_args(annotation)[0])
+    if get_origin(annotation) in (Union, UnionType):
+        return functools.reduce(operator.or_, map(unconstrained, get_args(annotation)))
+    return annotation
+
+
+def _optional_field(info: FieldInfo) -> tuple[Any, FieldInfo]:
+    """The same field with the same limits, optional, unset unless sent."""
+    annotation: Any = info.annotation
+    return annotation | None, FieldInfo.merge_field_infos(
+        info, default=None, default_factory=None, validate_default=False
+    )
+
+
+def _output_field(info: FieldInfo) -> tuple[Any, FieldInfo]:
+    """The same field, required and without limits, with its description."""
+    annotation = unconstrained(info.annotation)
+    return annotation, FieldInfo(annotation=annotation, description=info.description)
+
+
+class ChangesTo(StrictInput):
+    """A change (a PATCH body): `class TrapUpdate(ChangesTo, of=TrapCreate)` has every field
+    of TrapCreate, each optional, with the same limits; the fields sent are the changes."""
+
+    def __init_subclass__(
+        cls, of: type[BaseModel] | None = None, without: tuple[str, ...] = (), **kwargs: Any
+    ) -> None:
+        super().__init_subclass__(**kwargs)
+        if of is not None:
+            _take_fields(of, cls, without, _optional_field)
+
+
 class StoredOut(BaseModel):
-    """Output read straight off a stored record."""
+    """Output read straight off a stored record: `class TrapOut(StoredOut, of=TrapCreate)`
+    has every field of TrapCreate, required and unconstrained, after its own (ids)."""
 
     model_config = ConfigDict(from_attributes=True)
+
+    def __init_subclass__(cls, of: type[BaseModel] | None = None, **kwargs: Any) -> None:
+        super().__init_subclass__(**kwargs)
+        if of is not None:
+            _take_fields(of, cls, (), _output_field)
 
 
 Name = Annotated[str, StringConstraints(min_length=1, max_length=120)]
@@ -217,62 +290,14 @@ class SiteCreate(StrictInput):
         return {**_default_repair_costs(), **value}
 
 
-class SiteUpdate(StrictInput):
+class SiteUpdate(ChangesTo, of=SiteCreate):
     """Any of a site's fields; the merged site is checked as a whole, as on creation."""
 
-    name: Name | None = None
-    location: ShortText | None = None
-    elevation_m: Elevation | None = None
-    atmospheric_pressure_kpa: Atmosphere | None = None
-    currency: Currency | None = None
-    unit_system: UnitSystem | None = None
-    cost_basis: CostBasis | None = None
-    steam_cost_per_tonne: Money | None = None
-    fuel_price_per_gj: Money | None = None
-    boiler_efficiency: Efficiency | None = None
-    water_and_treatment_cost_per_tonne: Money | None = None
-    makeup_water_temperature_c: MakeupTemperature | None = None
-    co2_kg_per_gj_fuel: Co2Factor | None = None
-    fuel_heating_value: HeatingValue | None = None
-    co2_factor_heating_value: HeatingValue | None = None
-    net_to_gross_ratio: NetToGrossRatio | None = None
-    sewer_cost_per_tonne: Money | None = None
-    drain_temperature_limit_c: DrainTemperatureLimit | None = None
-    closed_return_pricing: ClosedReturnPricing | None = None
-    hours_per_year: HoursPerYear | None = None
-    discharge_coefficient: DischargeCoefficient | None = None
-    discharge_coefficient_low: DischargeCoefficient | None = None
-    discharge_coefficient_high: DischargeCoefficient | None = None
-    loss_factors: LossFactorsIn | None = None
-    repair_costs: dict[TrapType, RepairCostIn] | None = None
 
-
-class SiteOut(StoredOut):
+class SiteOut(StoredOut, of=SiteCreate):
     id: int
-    name: str
-    location: str
-    elevation_m: float | None
-    atmospheric_pressure_kpa: float
-    currency: str
-    unit_system: UnitSystem
-    cost_basis: CostBasis
-    steam_cost_per_tonne: float | None
-    fuel_price_per_gj: float | None
-    boiler_efficiency: float
-    water_and_treatment_cost_per_tonne: float
-    makeup_water_temperature_c: float
-    co2_kg_per_gj_fuel: float
-    fuel_heating_value: HeatingValue
-    co2_factor_heating_value: HeatingValue
-    net_to_gross_ratio: float
-    sewer_cost_per_tonne: float
-    drain_temperature_limit_c: float | None
-    closed_return_pricing: ClosedReturnPricing
-    hours_per_year: float
-    discharge_coefficient: float
-    discharge_coefficient_low: float
-    discharge_coefficient_high: float
-    loss_factors: dict[str, list[float]]
+    atmospheric_pressure_kpa: float  # the stored site's, from its elevation when not given
+    loss_factors: dict[str, list[float]]  # condition -> [typical, low, high]
     repair_costs: dict[str, dict[str, float]]
 
 
@@ -281,16 +306,13 @@ class AreaCreate(StrictInput):
     route_order: RoutePosition = 0
 
 
-class AreaUpdate(StrictInput):
-    name: Name | None = None
-    route_order: RoutePosition | None = None
+class AreaUpdate(ChangesTo, of=AreaCreate):
+    """Any of an area's fields."""
 
 
-class AreaOut(StoredOut):
+class AreaOut(StoredOut, of=AreaCreate):
     id: int
     site_id: int
-    name: str
-    route_order: int
 
 
 class TrapCreate(StrictInput):
@@ -333,48 +355,13 @@ class TrapCreate(StrictInput):
         return value
 
 
-class TrapUpdate(StrictInput):
+class TrapUpdate(ChangesTo, of=TrapCreate):
     """Any of a trap's fields; the merged trap is checked as a whole, as on creation."""
 
-    tag: Tag | None = None
-    area_id: RecordId | None = None
-    location: ShortText | None = None
-    route_position: RoutePosition | None = None
-    application: Application | None = None
-    trap_type: TrapType | None = None
-    connection_size: Annotated[str, StringConstraints(max_length=20)] | None = None
-    orifice_diameter_mm: OrificeDiameter | None = None
-    inlet_pressure_kpa_g: GaugePressure | None = None
-    steam_temperature_c: SteamTemperature | None = None
-    return_pressure_kpa_g: GaugePressure | None = None
-    condensate_destination: CondensateDestination | None = None
-    condensate_load_kg_h: CondensateLoad | None = None
-    hours_per_year: HoursPerYear | None = None
-    in_service: bool | None = None
-    installed_on: dt.date | None = None
-    notes: Notes | None = None
 
-
-class TrapOut(StoredOut):
+class TrapOut(StoredOut, of=TrapCreate):
     id: int
     site_id: int
-    area_id: int | None
-    tag: str
-    location: str
-    route_position: int | None
-    application: Application
-    trap_type: TrapType
-    connection_size: str
-    orifice_diameter_mm: float
-    inlet_pressure_kpa_g: float
-    steam_temperature_c: float | None
-    return_pressure_kpa_g: float
-    condensate_destination: CondensateDestination
-    condensate_load_kg_h: float | None
-    hours_per_year: float | None
-    in_service: bool
-    installed_on: dt.date | None
-    notes: str
 
 
 class SurveyCreate(StrictInput):
@@ -392,20 +379,13 @@ class SurveyCreate(StrictInput):
         return value
 
 
-class SurveyUpdate(StrictInput):
-    name: Name | None = None
-    started_on: dt.date | None = None
-    ended_on: dt.date | None = None
-    notes: Notes | None = None
+class SurveyUpdate(ChangesTo, of=SurveyCreate):
+    """Any of a survey's fields; the merged survey is checked as on creation."""
 
 
-class SurveyOut(StoredOut):
+class SurveyOut(StoredOut, of=SurveyCreate):
     id: int
     site_id: int
-    name: str
-    started_on: dt.date
-    ended_on: dt.date | None
-    notes: str
 
 
 class FindingCreate(StrictInput):
@@ -436,31 +416,13 @@ class FindingCreate(StrictInput):
         return value
 
 
-class FindingUpdate(StrictInput):
-    tested_at: dt.datetime | None = None
-    tested_by: Annotated[str, StringConstraints(max_length=80)] | None = None
-    method: TestMethod | None = None
-    condition: TrapCondition | None = None
-    loss_factor_override: Fraction | None = None
-    upstream_temperature_c: SurfaceTemperature | None = None
-    downstream_temperature_c: SurfaceTemperature | None = None
-    recommended_action: RecommendedAction | None = None
-    notes: Notes | None = None
+class FindingUpdate(ChangesTo, of=FindingCreate, without=("trap_id",)):
+    """Any of a finding's fields but its trap; the merged finding is checked as on creation."""
 
 
-class FindingOut(StoredOut):
+class FindingOut(StoredOut, of=FindingCreate):
     id: int
     survey_id: int
-    trap_id: RecordId
-    tested_at: dt.datetime
-    tested_by: str
-    method: TestMethod
-    condition: TrapCondition
-    loss_factor_override: float | None
-    upstream_temperature_c: float | None
-    downstream_temperature_c: float | None
-    recommended_action: RecommendedAction
-    notes: str
 
 
 class RepairCreate(StrictInput):
@@ -470,17 +432,10 @@ class RepairCreate(StrictInput):
     notes: Notes = ""
 
 
-class RepairUpdate(StrictInput):
-    repaired_on: dt.date | None = None
-    kind: RepairKind | None = None
-    cost: Money | None = None
-    notes: Notes | None = None
+class RepairUpdate(ChangesTo, of=RepairCreate):
+    """Any of a repair's fields."""
 
 
-class RepairOut(StoredOut):
+class RepairOut(StoredOut, of=RepairCreate):
     id: int
     trap_id: int
-    repaired_on: dt.date
-    kind: RepairKind
-    cost: float | None
-    notes: str

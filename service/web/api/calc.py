@@ -1,15 +1,12 @@
 """Calculations: the flash of condensate, flash recovery, and one trap's yearly losses.
 The requests the calculator page shares are in `service.web.calculations`."""
 
-from typing import Annotated, Any
+from typing import Annotated
 
 from fastapi import APIRouter, Depends
 from pydantic import BaseModel, ConfigDict, Field, field_validator
 
 from service.accounts.roles import Permission
-from service.physics.annual import (
-    YearlyLoss,
-)
 from service.physics.conditions import (
     FindingCategory,
     TrapCondition,
@@ -21,9 +18,8 @@ from service.physics.trap_loss import (
     TrapLoss,
     trap_loss,
 )
-from service.store.schemas import (
-    GaugePressure,
-)
+from service.reports.schemas import RANGED_FIGURES, ranged_fields, spread_fields
+from service.store.schemas import GaugePressure
 from service.web.access import require
 from service.web.calculations import (
     FlashRecoveryIn,
@@ -127,16 +123,6 @@ class TrapLossOut(BaseModel):
 
     @classmethod
     def from_loss(cls, loss: TrapLoss) -> "TrapLossOut":
-        def ranged(name: str, pick: str) -> dict[str, Any]:
-            def figure(year: YearlyLoss) -> Any:
-                return getattr(year, pick)
-
-            return {
-                name: figure(loss.live_steam),
-                f"{name}_low": figure(loss.live_steam_low),
-                f"{name}_high": figure(loss.live_steam_high),
-            }
-
         condensate = loss.condensate
         return cls(
             condition=loss.condition,
@@ -144,17 +130,14 @@ class TrapLossOut(BaseModel):
             flow_regime=loss.flow_regime,
             method=loss.method,
             orifice_capacity_kg_h=loss.orifice_capacity_kg_h,
-            loss_factor=loss.loss_factor.typical,
-            loss_factor_low=loss.loss_factor.low,
-            loss_factor_high=loss.loss_factor.high,
-            steam_loss_kg_h=loss.steam_loss_kg_h.typical,
-            steam_loss_kg_h_low=loss.steam_loss_kg_h.low,
-            steam_loss_kg_h_high=loss.steam_loss_kg_h.high,
-            **ranged("annual_steam_loss_t", "mass_t"),
-            **ranged("annual_energy_loss_gj", "energy_gj"),
-            **ranged("annual_fuel_gj", "fuel_gj"),
-            **ranged("annual_cost", "cost"),
-            **ranged("annual_co2_t", "co2_t"),
+            **spread_fields("loss_factor", loss.loss_factor),
+            **spread_fields("steam_loss_kg_h", loss.steam_loss_kg_h),
+            **ranged_fields(
+                loss.live_steam,
+                loss.live_steam_low,
+                loss.live_steam_high,
+                RANGED_FIGURES | {"annual_fuel_gj": "fuel_gj"},
+            ),
             flash_fraction=condensate.flash_fraction,
             flash_vented_kg_h=condensate.flash_vented_kg_h,
             annual_flash_vented_t=condensate.flash_vented.mass_t,

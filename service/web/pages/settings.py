@@ -7,7 +7,7 @@ from fastapi.responses import HTMLResponse, RedirectResponse, Response
 from pydantic import ValidationError
 
 from service.physics.annual import ClosedReturnPricing, HeatingValue
-from service.physics.conditions import TrapCondition
+from service.physics.conditions import LIVE_STEAM_CONDITIONS
 from service.physics.units import Dimension, UnitSystem
 from service.store import register
 from service.store.errors import ConflictError, FieldError
@@ -129,7 +129,6 @@ SETTINGS_CHOICES: list[tuple[str, str, list[str], str]] = [
         "The water comes back: by default only the heat the return does not bring back is lost.",
     ),
 ]
-LOSS_CONDITIONS = (TrapCondition.LEAKING, TrapCondition.BLOW_THROUGH, TrapCondition.RAPID_CYCLING)
 
 
 def _settings_typed(site: Site, show: Display) -> dict[str, str]:
@@ -149,7 +148,7 @@ def _settings_typed(site: Site, show: Display) -> dict[str, str]:
         if value is not None and dimension is not None:
             value = show.value(dimension, value)
         typed[name] = "" if value is None else f"{value:.6g}"
-    for condition in LOSS_CONDITIONS:
+    for condition in LIVE_STEAM_CONDITIONS:
         for index, end in enumerate(("typical", "low", "high")):
             typed[f"loss_{condition}_{end}"] = f"{site.loss_factors[condition][index]:g}"
     for trap_type, costs in site.repair_costs.items():
@@ -174,7 +173,7 @@ def _settings_changes(form: Form, site: Site, show: Display) -> dict[str, Any]:
         str(condition): {
             end: form.number(f"loss_{condition}_{end}") for end in ("typical", "low", "high")
         }
-        for condition in LOSS_CONDITIONS
+        for condition in LIVE_STEAM_CONDITIONS
     }
     changes["repair_costs"] = {
         trap_type: {kind: form.number(f"cost_{trap_type}_{kind}") for kind in costs}
@@ -194,7 +193,7 @@ def _settings_page(
         saved=saved,
         fields=SETTINGS_FIELDS,
         choices=SETTINGS_CHOICES,
-        loss_conditions=LOSS_CONDITIONS,
+        loss_conditions=LIVE_STEAM_CONDITIONS,
         unit_systems=list(UnitSystem),
         cost_bases=list(CostBasis),
         status_code=status,
