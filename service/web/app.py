@@ -64,20 +64,6 @@ REFUSALS: dict[int | str, dict[str, Any]] = {
     409: {"model": Refusal, "description": "The change would break a rule of the register"},
 }
 
-PAGE_ROUTERS = (
-    pages.accounts.router,
-    pages.audit.router,
-    pages.people.router,
-    pages.site.router,
-    pages.summary.router,
-    pages.downloads.router,
-    pages.settings.router,
-    pages.register.router,
-    pages.walk.router,
-    pages.calculator.router,
-    pages.transfer.router,
-)
-
 
 def create_app(database: Database | None = None, settings: Settings | None = None) -> FastAPI:
     """A new Traptally application on `database` (default: the settings' database URL)."""
@@ -106,7 +92,7 @@ def create_app(database: Database | None = None, settings: Settings | None = Non
         app.include_router(
             router, prefix="/api/v1", responses={} if router is health.router else REFUSALS
         )
-    for router in PAGE_ROUTERS:
+    for router in pages.ROUTERS:
         app.include_router(router)
     app.mount("/static", StaticFiles(directory=STATIC), name="static")
     app.add_middleware(SecurityHeaders)

@@ -14,7 +14,8 @@ from fastapi.testclient import TestClient
 
 from service.store.database import Database
 from service.store.models import Role
-from service.web.app import API_ROUTERS, PAGE_ROUTERS, create_app
+from service.web import pages
+from service.web.app import API_ROUTERS, create_app
 from tests.conftest import emptied
 from tests.factories import (
     bearer,
@@ -119,7 +120,7 @@ QUERIES = {"/api/v1/sites/{site_id}/compare": "from_survey={survey_id}&to_survey
 
 def _routes() -> list[tuple[str, str]]:
     mounted = [("/api/v1", router) for router in API_ROUTERS]
-    mounted += [("", router) for router in PAGE_ROUTERS]
+    mounted += [("", router) for router in pages.ROUTERS]
     return sorted(
         (method, prefix + route.path)
         for prefix, router in mounted

@@ -1,4 +1,9 @@
-"""The HTML pages: one router module per screen, over the same services as the API."""
+"""The HTML pages: one router module per screen, over the same services as the API.
+
+A new page is its module here, its template, and its line in `ROUTERS` (in the order the
+app tries them)."""
+
+from fastapi import APIRouter
 
 from service.web.pages import (
     accounts,
@@ -14,16 +19,16 @@ from service.web.pages import (
     walk,
 )
 
-__all__ = [
-    "accounts",
-    "audit",
-    "calculator",
-    "downloads",
-    "people",
-    "register",
-    "settings",
-    "site",
-    "summary",
-    "transfer",
-    "walk",
-]
+ROUTERS: tuple[APIRouter, ...] = (
+    accounts.router,
+    audit.router,
+    people.router,
+    site.router,
+    summary.router,
+    downloads.router,
+    settings.router,
+    register.router,
+    walk.router,
+    calculator.router,
+    transfer.router,
+)
