@@ -53,7 +53,8 @@ def repair_list_csv(summary: SummaryOut) -> str:
 
 
 def xlsx_bytes(title: str, header: list[str], rows: list[list[object]]) -> bytes:
-    """One sheet with a bold, frozen header row, as an .xlsx file."""
+    """One sheet with a bold, frozen header row, as an .xlsx file. Every text cell is
+    stored as text, never as a formula, whatever it begins with (OWASP, "CSV Injection")."""
     workbook = Workbook()
     sheet = workbook.active
     sheet.title = title[:31]
@@ -63,6 +64,9 @@ def xlsx_bytes(title: str, header: list[str], rows: list[list[object]]) -> bytes
     sheet.freeze_panes = "A2"
     for row in rows:
         sheet.append(row)
+        for cell in sheet[sheet.max_row]:
+            if isinstance(cell.value, str):
+                cell.data_type = "s"  # openpyxl takes a string starting with = for a formula
     out = io.BytesIO()
     workbook.save(out)
     return out.getvalue()

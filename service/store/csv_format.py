@@ -192,11 +192,57 @@ def word(text: str) -> str:
     return text.strip().lower().replace(" ", "_").replace("-", "_")
 
 
+# A text cell a spreadsheet would run as a formula begins with one of these (OWASP, "CSV
+# Injection"): "=1+1", "=HYPERLINK(...)", "@SUM(...)", "+cmd|...".
+FORMULA_STARTS = ("=", "+", "-", "@", "\t", "\r")
+TEXT_MARK = "'"  # a spreadsheet shows a cell led by an apostrophe as the text after it
+
+
+def could_run_as_formula(text: str) -> bool:
+    """True where a spreadsheet would take this text for a formula.
+
+    >>> could_run_as_formula("=HYPERLINK(\"http://x\")"), could_run_as_formula("F-12 leaks")
+    (True, False)
+    """
+    return text.startswith(FORMULA_STARTS)
+
+
+def spreadsheet_text(text: str) -> str:
+    """Text that a spreadsheet shows as written, never runs: one that would start a
+    formula is led by an apostrophe (OWASP, "CSV Injection"). `as_typed` undoes it.
+
+    >>> spreadsheet_text("=1+1"), spreadsheet_text("-"), spreadsheet_text("lagging torn")
+    ("'=1+1", "'-", 'lagging torn')
+    """
+    return TEXT_MARK + text if could_run_as_formula(text) else text
+
+
+def as_typed(text: str) -> str:
+    """A text cell as it was typed before `spreadsheet_text` marked it, so an exported
+    file imports back to the same text.
+
+    >>> as_typed("'=1+1"), as_typed("'quoted'")
+    ('=1+1', "'quoted'")
+    """
+    unmarked = text.removeprefix(TEXT_MARK)
+    return unmarked if could_run_as_formula(unmarked) else text
+
+
 def write_table(header: list[str], rows: list[list[object]]) -> str:
-    """CSV text (comma-separated, CRLF line ends as RFC 4180) of a header and its rows."""
+    """CSV text (comma-separated, CRLF line ends as RFC 4180) of a header and its rows,
+    its text safe to open in a spreadsheet (`spreadsheet_text`); numbers stay numbers.
+
+    >>> write_table(["tag", "notes"], [["F-1", "=1+1"]])
+    "tag,notes\r\nF-1,'=1+1\r\n"
+    """
     out = io.StringIO()
     writer = csv.writer(out)
     writer.writerow(header)
     for row in rows:
-        writer.writerow(["" if cell is None else cell for cell in row])
+        writer.writerow(
+            [
+                "" if cell is None else spreadsheet_text(cell) if isinstance(cell, str) else cell
+                for cell in row
+            ]
+        )
     return out.getvalue()

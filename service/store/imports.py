@@ -26,6 +26,8 @@ from service.store.csv_format import (
     Table,
     UnitColumn,
     UnreadableFile,
+    as_typed,
+    could_run_as_formula,
     in_file_units,
     number,
     number_in_program_unit,
@@ -138,6 +140,8 @@ class ImportPlan(Generic[Data]):
     columns: list[str] = field(default_factory=list)
     rows: list[PlannedRow[Data]] = field(default_factory=list)
     problems: list[Problem] = field(default_factory=list)
+    # Written all the same, but worth a look: text a spreadsheet would run as a formula.
+    warnings: list[Problem] = field(default_factory=list)
 
     @property
     def creates(self) -> int:
@@ -152,9 +156,15 @@ class ImportPlan(Generic[Data]):
         return not self.problems
 
 
+FORMULA_WARNING = (
+    "'{text}' begins like a spreadsheet formula: it is stored as text, and exports write it "
+    "led by an apostrophe so a spreadsheet shows it rather than runs it"
+)
+
+
 def _cell_value(table: Table, kind: str, text: str) -> Any:
     if kind == TEXT:
-        return text
+        return as_typed(text)
     if kind == WORD:
         return word(text)
     if kind == NUMBER:
@@ -213,12 +223,15 @@ def _read_row(
     row: int,
     cells: dict[str, str],
     problems: list[Problem],
+    warnings: list[Problem],
 ) -> dict[str, Any]:
     fields: dict[str, Any] = {}
     for column in spec.columns:
         text = cells.get(column.name, "")
         if not text:
             continue
+        if column.kind == TEXT and could_run_as_formula(text):
+            warnings.append(Problem(row, column.name, FORMULA_WARNING.format(text=text[:40])))
         try:
             fields[column.name] = _cell_value(table, column.kind, text)
         except ValueError as error:
@@ -277,7 +290,7 @@ def _plan(
     }
     for row, cells in table.rows:
         row_problems: list[Problem] = []
-        fields = _read_row(table, spec, units, chosen, row, cells, row_problems)
+        fields = _read_row(table, spec, units, chosen, row, cells, row_problems, plan.warnings)
         existing_id, trap_id = prepare(row, fields, row_problems)
         data = None if row_problems else _validated(spec, chosen, row, fields, row_problems)
         if data is not None and not row_problems:

@@ -6,7 +6,7 @@ from typing import Annotated, Any
 from fastapi import APIRouter, Query, Request
 from fastapi.concurrency import run_in_threadpool
 from fastapi.responses import JSONResponse, Response
-from pydantic import BaseModel
+from pydantic import BaseModel, Field
 from sqlalchemy.orm import Session
 
 from service.reports.exports import repair_list_csv
@@ -49,6 +49,9 @@ class ImportOut(BaseModel):
     creates: int
     updates: int
     problems: list[ProblemOut]
+    warnings: list[ProblemOut] = Field(
+        description="Written all the same: text a spreadsheet would run as a formula"
+    )
     committed: bool
 
 
@@ -88,9 +91,8 @@ def _run_import(
         rows=len(found.rows),
         creates=found.creates,
         updates=found.updates,
-        problems=[
-            ProblemOut(row=p.row, column=p.column, message=p.message) for p in found.problems
-        ],
+        problems=[ProblemOut.model_validate(p, from_attributes=True) for p in found.problems],
+        warnings=[ProblemOut.model_validate(p, from_attributes=True) for p in found.warnings],
         committed=committed,
     )
     return JSONResponse(
