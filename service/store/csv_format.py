@@ -201,7 +201,7 @@ TEXT_MARK = "'"  # a spreadsheet shows a cell led by an apostrophe as the text a
 def could_run_as_formula(text: str) -> bool:
     """True where a spreadsheet would take this text for a formula.
 
-    >>> could_run_as_formula("=HYPERLINK(\"http://x\")"), could_run_as_formula("F-12 leaks")
+    >>> could_run_as_formula("=HYPERLINK(A1)"), could_run_as_formula("F-12 leaks")
     (True, False)
     """
     return text.startswith(FORMULA_STARTS)
@@ -233,7 +233,7 @@ def write_table(header: list[str], rows: list[list[object]]) -> str:
     its text safe to open in a spreadsheet (`spreadsheet_text`); numbers stay numbers.
 
     >>> write_table(["tag", "notes"], [["F-1", "=1+1"]])
-    "tag,notes\r\nF-1,'=1+1\r\n"
+    "tag,notes\\r\\nF-1,'=1+1\\r\\n"
     """
     out = io.StringIO()
     writer = csv.writer(out)
