@@ -16,7 +16,14 @@ from service.physics.trap_loss import CondensateDestination
 from service.reports.compare import Change, SurveyComparison, TrapChange
 from service.reports.summary import PricedTrap, SiteSummary, Tally
 from service.store.models import Survey
-from service.store.vocabulary import Application, RecommendedAction, RepairKind, TrapType, label
+from service.store.vocabulary import (
+    Application,
+    RecommendedAction,
+    RepairKind,
+    SurveyStatus,
+    TrapType,
+    label,
+)
 
 
 class TallyOut(BaseModel):
@@ -248,11 +255,16 @@ class SurveyRef(BaseModel):
     name: str
     started_on: dt.date
     ended_on: dt.date | None
+    status: SurveyStatus = Field(description="In progress: its figures are so far")
 
     @classmethod
     def of(cls, survey: Survey) -> "SurveyRef":
         return cls(
-            id=survey.id, name=survey.name, started_on=survey.started_on, ended_on=survey.ended_on
+            id=survey.id,
+            name=survey.name,
+            started_on=survey.started_on,
+            ended_on=survey.ended_on,
+            status=survey.status,
         )
 
 
@@ -271,6 +283,9 @@ class SummaryOut(BaseModel):
     currency: str
     survey: SurveyRef | None
     traps_in_service: int
+    traps_recorded: int = Field(
+        description="Traps in service with a finding in this survey: 'so far, N of M tested'"
+    )
     traps_tested: int = Field(description="Tested in operation (not 'not accessible' or out)")
     traps_untested: int
     traps_not_accessible: int
@@ -312,6 +327,7 @@ class SummaryOut(BaseModel):
             currency=summary.site.currency,
             survey=None if survey is None else SurveyRef.of(survey),
             traps_in_service=summary.traps_in_service,
+            traps_recorded=summary.traps_in_service - summary.traps_untested,
             traps_tested=summary.traps_tested,
             traps_untested=summary.traps_untested,
             traps_not_accessible=summary.traps_not_accessible,

@@ -31,13 +31,15 @@ def load_demo(*, session: Session, folder: Path = SEED_DATA) -> Site | None:
     )
     imports.apply_register(session=session, site=site, plan=plan)
     for entry in json.loads((folder / "surveys.json").read_text(encoding="utf-8")):
-        findings_file = entry.pop("findings")
+        # Recorded while in progress, then put in the state the file gives it (closed).
+        findings_file, status = entry.pop("findings"), entry.pop("status")
         survey = surveys.create_survey(
             session=session, site=site, data=SurveyCreate.model_validate(entry)
         )
         content = (folder / findings_file).read_bytes()
         found = imports.plan_findings(session=session, survey=survey, content=content)
         imports.apply_findings(session=session, survey=survey, plan=_applied(found, findings_file))
+        surveys.update_survey(session=session, survey=survey, changes={"status": status})
     content = (folder / "repairs.csv").read_bytes()
     repairs = imports.plan_repairs(session=session, site=site, content=content)
     imports.apply_repairs(session=session, plan=_applied(repairs, "repairs.csv"))

@@ -20,7 +20,7 @@ from pydantic import BaseModel, ValidationError
 from sqlalchemy import select
 from sqlalchemy.orm import Session
 
-from service.store import register
+from service.store import register, surveys
 from service.store.csv_format import (
     Problem,
     Table,
@@ -37,7 +37,7 @@ from service.store.csv_format import (
     word,
     yes_or_no,
 )
-from service.store.errors import FieldError
+from service.store.errors import ConflictError, FieldError
 from service.store.models import Area, Finding, Repair, Site, Survey, Trap
 from service.store.schemas import FindingCreate, RepairCreate, TrapCreate, unconstrained
 
@@ -436,7 +436,12 @@ def plan_findings(*, session: Session, survey: Survey, content: bytes) -> Import
         fields["trap_id"] = trap_id
         return stored.get((trap_id, fields.get("tested_at"))), trap_id
 
-    return _plan(content, FINDINGS, "findings", prepare)
+    plan = _plan(content, FINDINGS, "findings", prepare)
+    try:
+        surveys.check_open_for_findings(survey)
+    except ConflictError as error:
+        plan.problems.insert(0, Problem(1, "", str(error)))
+    return plan
 
 
 def apply_findings(*, session: Session, survey: Survey, plan: ImportPlan[FindingCreate]) -> None:

@@ -37,6 +37,7 @@ from service.store.vocabulary import (
     CostBasis,
     RecommendedAction,
     RepairKind,
+    SurveyStatus,
     TestMethod,
     TrapType,
 )
@@ -195,6 +196,9 @@ class Survey(Base):
     started_on: Mapped[dt.date]
     ended_on: Mapped[dt.date | None]
     notes: Mapped[str] = mapped_column(Text, default="")
+    status: Mapped[SurveyStatus] = mapped_column(
+        _words(SurveyStatus), server_default=SurveyStatus.IN_PROGRESS.value
+    )
 
 
 class Finding(Base):

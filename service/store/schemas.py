@@ -51,6 +51,7 @@ from service.store.vocabulary import (
     CostBasis,
     RecommendedAction,
     RepairKind,
+    SurveyStatus,
     TestMethod,
     TrapType,
 )
@@ -369,6 +370,17 @@ class SurveyCreate(StrictInput):
     started_on: dt.date
     ended_on: dt.date | None = None
     notes: Notes = ""
+    status: SurveyStatus = Field(
+        default=SurveyStatus.IN_PROGRESS,
+        description="planned, in_progress (findings may be recorded) or closed (only a "
+        "manager's correction); closing without an end date ends the round today",
+    )
+
+    @model_validator(mode="after")
+    def _a_closed_round_has_ended(self) -> Self:
+        if self.status == SurveyStatus.CLOSED and self.ended_on is None:
+            self.ended_on = max(self.started_on, dt.datetime.now(dt.UTC).date())
+        return self
 
     @field_validator("ended_on")
     @classmethod

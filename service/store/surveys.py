@@ -14,6 +14,7 @@ from service.store.errors import ConflictError, FieldError, NotFoundError
 from service.store.models import Area, Finding, Repair, Site, Survey, Trap
 from service.store.records import Page, get, merged_input, paged
 from service.store.schemas import FindingCreate, RepairCreate, SurveyCreate
+from service.store.vocabulary import SurveyStatus
 
 IDEMPOTENCY_HEADER = "Idempotency-Key"
 
@@ -109,19 +110,43 @@ def _trap_of_site(session: Session, site_id: int, trap_id: int) -> Trap:
     return trap
 
 
+def check_open_for_findings(survey: Survey, *, correction: bool = False) -> None:
+    """Findings are recorded while a round is in progress; a closed round takes only a
+    correction (which the caller lets a manager make); a planned one none. ConflictError
+    says why."""
+    if survey.status == SurveyStatus.PLANNED:
+        raise ConflictError(
+            f"the round '{survey.name}' is planned and not started yet: a manager starts it "
+            "before findings are recorded"
+        )
+    if survey.status == SurveyStatus.CLOSED and not correction:
+        raise ConflictError(
+            f"the round '{survey.name}' is closed: its findings change only by a manager's "
+            "correction"
+        )
+
+
 def record_finding(
-    *, session: Session, survey: Survey, data: FindingCreate, idempotency_key: str | None = None
+    *,
+    session: Session,
+    survey: Survey,
+    data: FindingCreate,
+    idempotency_key: str | None = None,
+    correction: bool = False,
 ) -> tuple[Finding, bool]:
     """Store one finding; with a key already used for the same finding, return that one.
 
     Returns the finding and whether it was stored before (a replayed request). The
-    same key with a different finding raises FieldError on the header.
+    same key with a different finding raises FieldError on the header. A round not in
+    progress refuses a new finding (`check_open_for_findings`), but a save that reached
+    the server before the round closed is still answered with what it stored.
     """
     fingerprint = _fingerprint(survey, data)
     if idempotency_key is not None:
         earlier = _replay(session, idempotency_key, fingerprint)
         if earlier is not None:
             return earlier, True
+    check_open_for_findings(survey, correction=correction)
     _trap_of_site(session, survey.site_id, data.trap_id)
     finding = Finding(
         survey_id=survey.id,

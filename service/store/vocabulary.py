@@ -60,6 +60,15 @@ class RepairKind(StrEnum):
     REPLACED = "replaced"
 
 
+class SurveyStatus(StrEnum):
+    """A survey round's life: planned -> in progress -> closed. Findings are recorded only
+    while it is in progress; once closed, only by a manager's correction."""
+
+    PLANNED = "planned"
+    IN_PROGRESS = "in_progress"
+    CLOSED = "closed"
+
+
 class CostBasis(StrEnum):
     STEAM_COST = "steam_cost"
     FUEL_PRICE = "fuel_price"
@@ -104,6 +113,9 @@ LABELS: dict[str, str] = {
     "drain": "Drain",
     "napier": "Napier's equation",
     "napier_nozzle_corrected": "Napier's equation, corrected by the IF97 nozzle",
+    "planned": "Planned",
+    "in_progress": "In progress",
+    "closed": "Closed",
     "steam_cost": "Steam cost per tonne",
     "fuel_price": "Fuel price per GJ",
     "lhv": "Net (lower) heating value, LHV",

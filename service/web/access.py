@@ -84,6 +84,11 @@ class Viewer:
     def may(self, permission: Permission) -> bool:
         return may(self.role, permission)
 
+    def tester(self, typed: str) -> str:
+        """Who a finding this viewer records says tested the trap: the viewer, unless a
+        manager names someone else (entering another's paper records, say)."""
+        return typed if typed and self.may(Permission.MANAGE) else self.name
+
     def sees(self, site_id: int) -> bool:
         return self.site_ids is None or site_id in self.site_ids
 

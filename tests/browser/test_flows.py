@@ -38,7 +38,7 @@ def test_a_technician_walks_five_traps_and_one_save_survives_a_dropped_connectio
     base, _ = live_server
     tablet.goto(f"{base}/sites/1")
     tablet.get_by_label("Name").fill("Autumn walk 2026")
-    tablet.get_by_role("button", name="Start the survey").click()
+    tablet.get_by_role("button", name="Add the survey round").click()
     expect(tablet.get_by_role("heading", name="Autumn walk 2026")).to_be_visible()
     tablet.get_by_role("link", name=re.compile("Next trap to test")).click()
 
@@ -163,11 +163,16 @@ def test_touch_targets_are_at_least_44_px(live_server: tuple[str, Database], tab
 
 
 def test_a_finding_can_be_recorded_with_the_keyboard_alone(
-    live_server: tuple[str, Database], browser: Browser
+    live_server: tuple[str, Database], browser: Browser, api_headers: dict[str, str]
 ) -> None:
     base, _ = live_server
+    round_in_progress = httpx.post(
+        f"{base}/api/v1/sites/1/surveys",
+        json={"name": "Keyboard round", "started_on": "2026-11-02"},
+        headers=api_headers,
+    ).json()
     page = browser.new_page(viewport=TABLET_PORTRAIT)
-    sign_in(page, base, name="fieldtech", then="/surveys/1/walk/traps/2")
+    sign_in(page, base, name="fieldtech", then=f"/surveys/{round_in_progress['id']}/walk/traps/2")
     page.locator("input[name=condition]").first.focus()
     page.keyboard.press("ArrowRight")  # from Working to Leaking, as radio groups move
     page.keyboard.press("Space")

@@ -92,6 +92,7 @@ TABLE: dict[tuple[str, str], tuple[str, bool, int]] = {
     ("GET", "/"): (R, False, 200),
     ("GET", "/sites/{site_id}"): (R, True, 200),
     ("POST", "/sites/{site_id}/surveys"): (M, True, 422),
+    ("POST", "/surveys/{survey_id}/state"): (M, True, 422),
     ("GET", "/sites/{site_id}/summary"): (R, True, 200),
     ("GET", "/sites/{site_id}/report"): (R, True, 200),
     ("GET", "/sites/{site_id}/downloads/repair-list.{suffix}"): (R, True, 200),

@@ -5,11 +5,12 @@ from typing import Annotated
 from fastapi import APIRouter, Header, Query, Response
 from starlette.status import HTTP_201_CREATED
 
+from service.accounts.roles import Permission
 from service.physics.conditions import TrapCondition
 from service.store import surveys
 from service.store.models import Finding, Survey, Trap
 from service.store.schemas import FindingCreate, FindingOut, FindingUpdate
-from service.web.access import Managing, Reading, Recording
+from service.web.access import Managing, NotPermitted, Reading, Recording
 from service.web.dependencies import Db, OptionalRecordIdQuery, PageOut, PagingDep, RecordId
 
 router = APIRouter(tags=["findings"])
@@ -31,6 +32,9 @@ IdempotencyKey = Annotated[
     "/surveys/{survey_id}/findings",
     status_code=HTTP_201_CREATED,
     summary="Record a finding (idempotent with an Idempotency-Key header)",
+    description="`tested_by` is the signed-in person's name; a manager may name another. "
+    "A round must be in progress (409 otherwise), or closed with `correction=true` from a "
+    "manager.",
 )
 def record_finding(
     survey_id: RecordId,
@@ -39,11 +43,25 @@ def record_finding(
     viewer: Recording,
     response: Response,
     idempotency_key: IdempotencyKey = None,
+    correction: Annotated[
+        bool,
+        Query(
+            description="A manager's correction to a closed round (recorded in the audit "
+            "trail like every finding); a round not in progress refuses findings otherwise"
+        ),
+    ] = False,
 ) -> FindingOut:
+    if correction and not viewer.may(Permission.MANAGE):
+        raise NotPermitted
+    body = body.model_copy(update={"tested_by": viewer.tester(body.tested_by)})
     with db.writing(viewer.actor) as session:
         survey = viewer.get(session, Survey, survey_id)
         finding, replayed = surveys.record_finding(
-            session=session, survey=survey, data=body, idempotency_key=idempotency_key
+            session=session,
+            survey=survey,
+            data=body,
+            idempotency_key=idempotency_key,
+            correction=correction,
         )
         answer = FindingOut.model_validate(finding)
     if replayed:

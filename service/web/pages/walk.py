@@ -15,6 +15,7 @@ from fastapi.responses import HTMLResponse, RedirectResponse, Response
 from pydantic import ValidationError
 from sqlalchemy.orm import Session
 
+from service.accounts.roles import Permission
 from service.physics.trap_loss import CondensateDestination
 from service.physics.units import Dimension
 from service.reports.summary import SummaryRow, summary_rows
@@ -24,7 +25,7 @@ from service.store.models import Finding, Site, Survey, Trap
 from service.store.records import get
 from service.store.schemas import FindingCreate, TrapCreate
 from service.store.vocabulary import Application, RecommendedAction, TestMethod, TrapType
-from service.web.access import Reading, Recording
+from service.web.access import NotPermitted, Reading, Recording, Viewer
 from service.web.dependencies import Db, OptionalRecordIdQuery, RecordId, record_id
 from service.web.forms import Form
 from service.web.pages.templating import display_for, page
@@ -159,13 +160,13 @@ def finding_form(
         return _finding_page(request, session, survey, trap, _blank_form(request), saved=stored)
 
 
-def _finding_fields(form: Form, trap: Trap, site: Site) -> dict[str, Any]:
+def _finding_fields(form: Form, trap: Trap, site: Site, viewer: Viewer) -> dict[str, Any]:
     show = display_for(site)
     moment = form.text("tested_at") or form.text("opened_at")
     return {
         "trap_id": trap.id,
         "tested_at": moment or dt.datetime.now(dt.UTC).replace(microsecond=0),
-        "tested_by": form.text("tested_by"),
+        "tested_by": viewer.tester(form.text("tested_by")),
         "method": form.text("method") or None,
         "condition": form.text("condition") or None,
         "loss_factor_override": form.number("loss_factor_override"),
@@ -191,18 +192,27 @@ async def save_finding(
 ) -> Response:
     form = await Form.of(request)
     key = form.text("idempotency_key") or None
+    correction = form.text("correction") == "yes"
+    if correction and not viewer.may(Permission.MANAGE):
+        raise NotPermitted
     with db.writing(viewer.actor) as session:
         survey = viewer.get(session, Survey, survey_id)
         trap = _trap_of_survey(session, survey, trap_id)
         site = viewer.get(session, Site, survey.site_id)
-        fields = _finding_fields(form, trap, site)
+        fields = _finding_fields(form, trap, site, viewer)
         finding: Finding | None = None
         if form.ok:
             try:
                 data = FindingCreate.model_validate(fields)
                 finding, _ = surveys.record_finding(
-                    session=session, survey=survey, data=data, idempotency_key=key
+                    session=session,
+                    survey=survey,
+                    data=data,
+                    idempotency_key=key,
+                    correction=correction,
                 )
+            except ConflictError as error:
+                form.errors["round"] = f"Not saved: {error}. What you entered is kept."
             except (ValidationError, FieldError) as error:
                 form.absorb(error, FORM_NAMES)
                 if isinstance(error, FieldError) and error.field == surveys.IDEMPOTENCY_HEADER:
