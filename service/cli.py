@@ -4,14 +4,17 @@ import argparse
 import getpass
 import sys
 from collections.abc import Sequence
+from pathlib import Path
 
 import uvicorn
 from sqlalchemy import select
 
 from service.accounts import tokens, users
 from service.accounts.demo import add_demo_accounts
+from service.logs import configure_logging
 from service.settings import DATABASE_URL_VARIABLE, Settings
 from service.store.audit import Actor
+from service.store.backup import BackupError, back_up
 from service.store.database import Database
 from service.store.demo import load_demo
 from service.store.errors import ConflictError, FieldError, NotFoundError
@@ -46,6 +49,13 @@ def _parser() -> argparse.ArgumentParser:
     _add_database_option(upgrade)
     current = db_commands.add_parser("current", help="say which migration the database is at")
     _add_database_option(current)
+    backup = db_commands.add_parser(
+        "backup",
+        help="write a consistent copy while the server runs (SQLite: a database file; "
+        "PostgreSQL: pg_dump's custom format, for pg_restore)",
+    )
+    backup.add_argument("file", type=Path, help="where to write the copy (replaced)")
+    _add_database_option(backup)
     _add_account_commands(commands)
     return parser
 
@@ -116,7 +126,15 @@ def _serve(arguments: argparse.Namespace, database: Database) -> int:
         if accounts:
             print("These passwords are shown only now.")
     print(f"Traptally on http://{arguments.host}:{arguments.port}")
-    uvicorn.run(create_app(database), host=arguments.host, port=arguments.port)
+    configure_logging()
+    # Our own request log (service/web/request_log.py) replaces uvicorn's access log.
+    uvicorn.run(
+        create_app(database),
+        host=arguments.host,
+        port=arguments.port,
+        log_config=None,
+        access_log=False,
+    )
     return 0
 
 
@@ -191,6 +209,14 @@ def main(argv: Sequence[str] | None = None) -> int:
             except (FieldError, ConflictError, NotFoundError) as error:
                 print(f"traptally: {error}", file=sys.stderr)
                 return 1
+        if arguments.db_command == "backup":
+            try:
+                back_up(database=database, to=arguments.file)
+            except BackupError as error:
+                print(f"traptally: {error}", file=sys.stderr)
+                return 1
+            print(f"backed up to {arguments.file}")
+            return 0
         if arguments.db_command == "upgrade":
             database.upgrade()
         print(f"database at migration {database.schema_revision()}")

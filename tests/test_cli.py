@@ -18,6 +18,9 @@ from service.store.database import Database
 def served(monkeypatch: pytest.MonkeyPatch) -> list[dict[str, Any]]:
     calls: list[dict[str, Any]] = []
     monkeypatch.setattr("uvicorn.run", lambda app, **options: calls.append(options))
+    # The log's set-up is tested on its own (tests/web/test_operations.py); here it would
+    # take the program's logger from pytest's capture for the rest of the run.
+    monkeypatch.setattr(cli, "configure_logging", lambda: None)
     return calls
 
 
@@ -26,7 +29,7 @@ def test_serve_upgrades_a_sqlite_file_and_starts_uvicorn(
 ) -> None:
     url = f"sqlite:///{tmp_path / 'new.db'}"
     assert cli.main(["serve", "--host", "0.0.0.0", "--port", "8123", "--database-url", url]) == 0
-    assert served == [{"host": "0.0.0.0", "port": 8123}]
+    assert served == [{"host": "0.0.0.0", "port": 8123, "log_config": None, "access_log": False}]
     assert Database.at(url).schema_is_current()
 
 

@@ -6,7 +6,6 @@ from typing import Any
 
 from fastapi import FastAPI
 from fastapi.exceptions import RequestValidationError
-from fastapi.staticfiles import StaticFiles
 from pydantic import BaseModel, ValidationError
 
 from service import __version__
@@ -30,7 +29,13 @@ from service.web.api import (
     transfer,
     traps,
 )
+from service.web.compression import Compressed
 from service.web.headers import SecurityHeaders
+from service.web.request_log import RequestLog
+from service.web.static import FingerprintedStatic
+
+# Smaller answers gain nothing from compression (a header costs about as much).
+GZIP_MINIMUM_BYTES = 1000
 
 API_ROUTERS = (
     health.router,
@@ -94,8 +99,11 @@ def create_app(database: Database | None = None, settings: Settings | None = Non
         )
     for router in pages.ROUTERS:
         app.include_router(router)
-    app.mount("/static", StaticFiles(directory=STATIC), name="static")
+    app.mount("/static", FingerprintedStatic(directory=STATIC), name="static")
     app.add_middleware(SecurityHeaders)
+    # Compressed answers; the CSRF token in a page is masked afresh each time (BREACH).
+    app.add_middleware(Compressed, minimum_size=GZIP_MINIMUM_BYTES)
+    app.add_middleware(RequestLog)  # outermost: it times and logs every answer
     app.add_exception_handler(RequestValidationError, errors.validation_error_as_422)
     app.add_exception_handler(ValidationError, errors.pydantic_error_as_422)
     app.add_exception_handler(FieldError, errors.field_error_as_422)

@@ -18,8 +18,10 @@ from fastapi.exceptions import RequestValidationError
 from fastapi.responses import JSONResponse, RedirectResponse, Response
 from pydantic import ValidationError
 
+from service.logs import LOGGER
 from service.store.errors import FieldError
 from service.store.surveys import IDEMPOTENCY_HEADER
+from service.web.request_log import REQUEST_ID_HEADER, request_id_of
 
 _PYDANTIC_PREFIX = "Value error, "
 
@@ -116,21 +118,32 @@ async def conflict_as_409(request: Request, error: Exception) -> Response:
     return JSONResponse(status_code=409, content={"detail": str(error)})
 
 
-LOG = logging.getLogger("traptally")
+LOG = logging.getLogger(LOGGER)
 
 
 async def unexpected_error_as_500(request: Request, error: Exception) -> Response:
     """A fault of the program, not of the request: logged with its traceback and answered
     500 without its details. Every write is one transaction, so nothing was stored. Input
     errors never come here: routes tie them to their field (422)."""
-    LOG.error("unexpected error on %s %s", request.method, request.url.path, exc_info=error)
+    LOG.error(
+        "unexpected error on %s %s",
+        request.method,
+        request.url.path,
+        exc_info=error,
+        extra={"request_id": request_id_of(request.scope)},
+    )
     message = (
         "The server could not finish this, and nothing was saved. The error is logged; "
         "try again, or tell the person who runs Traptally."
     )
-    if _for_a_person(request):
-        return _error_page(request, 500, "Something went wrong", message)
-    return JSONResponse(status_code=500, content={"detail": message})
+    answer = (
+        _error_page(request, 500, "Something went wrong", message)
+        if _for_a_person(request)
+        else JSONResponse(status_code=500, content={"detail": message})
+    )
+    # Sent from outside the request log's middleware: the id a person can quote, all the same.
+    answer.headers[REQUEST_ID_HEADER] = request_id_of(request.scope)
+    return answer
 
 
 async def not_signed_in(request: Request, error: Exception) -> Response:

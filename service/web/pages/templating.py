@@ -12,7 +12,9 @@ from service.physics.conditions import TrapCondition, is_failed, is_flooding_ris
 from service.shipped import TEMPLATES
 from service.store.models import Site
 from service.store.vocabulary import label
+from service.web.access import masked_csrf_token
 from service.web.display import Display, percent
+from service.web.static import static_url
 
 templates = Jinja2Templates(directory=TEMPLATES)
 templates.env.globals.update(
@@ -23,6 +25,7 @@ templates.env.globals.update(
     is_failed=is_failed,
     is_flooding_risk=is_flooding_risk,
     Permission=Permission,
+    static_url=static_url,
 )
 templates.env.trim_blocks = True
 templates.env.lstrip_blocks = True
@@ -56,7 +59,7 @@ def page(
             "site": site,
             "show": display_for(site),
             "viewer": viewer,
-            "csrf_token": (viewer.csrf_token if viewer is not None else None) or "",
+            "csrf_token": masked_csrf_token(viewer.csrf_token if viewer is not None else None),
             **context,
         },
         status_code=status_code,
