@@ -2,16 +2,18 @@
 
 import argparse
 import getpass
+import os
 import sys
 from collections.abc import Sequence
 from pathlib import Path
+from typing import Any
 
 import uvicorn
 from sqlalchemy import select
 
 from service.accounts import tokens, users
 from service.accounts.demo import add_demo_accounts
-from service.logs import configure_logging
+from service.logs import LOG_CONFIG
 from service.settings import DATABASE_URL_VARIABLE, Settings
 from service.store.audit import Actor
 from service.store.backup import BackupError, back_up
@@ -20,6 +22,8 @@ from service.store.demo import load_demo
 from service.store.errors import ConflictError, FieldError, NotFoundError
 from service.store.models import Role, Site, User
 from service.web.app import create_app
+
+APP_FACTORY = "service.web.app:create_app"
 
 
 def _add_database_option(parser: argparse.ArgumentParser) -> None:
@@ -41,6 +45,13 @@ def _parser() -> argparse.ArgumentParser:
     serve.add_argument("--port", type=int, default=8000, help="TCP port to listen on")
     serve.add_argument(
         "--demo", action="store_true", help="load the demo plant into an empty database"
+    )
+    serve.add_argument(
+        "--workers",
+        type=int,
+        default=1,
+        help="worker processes (default 1); sessions and sign-in limits are in the "
+        "database, so every worker sees the same",
     )
     _add_database_option(serve)
     db = commands.add_parser("db", help="the database's schema")
@@ -126,15 +137,21 @@ def _serve(arguments: argparse.Namespace, database: Database) -> int:
         if accounts:
             print("These passwords are shown only now.")
     print(f"Traptally on http://{arguments.host}:{arguments.port}")
-    configure_logging()
     # Our own request log (service/web/request_log.py) replaces uvicorn's access log.
-    uvicorn.run(
-        create_app(database),
-        host=arguments.host,
-        port=arguments.port,
-        log_config=None,
-        access_log=False,
-    )
+    options: dict[str, Any] = {
+        "host": arguments.host,
+        "port": arguments.port,
+        "log_config": LOG_CONFIG,
+        "access_log": False,
+    }
+    if arguments.workers > 1:
+        # Each worker process builds its own app from the environment: pass the database on.
+        os.environ[DATABASE_URL_VARIABLE] = database.engine.url.render_as_string(
+            hide_password=False
+        )
+        uvicorn.run(APP_FACTORY, factory=True, workers=arguments.workers, **options)
+    else:
+        uvicorn.run(create_app(database), **options)
     return 0
 
 

@@ -2,29 +2,36 @@
 request id that ties a request's line to any error it raised.
 
 What is never logged: request bodies, query strings, headers, cookies, tokens and
-passwords. A request's line names its method, path, answer, time and user id."""
+passwords. A request's line names its method, path, answer, time and user id.
 
-import logging
-import sys
+`LOG_CONFIG` is a `logging.config.dictConfig` dictionary; `traptally serve` hands it to
+uvicorn, which applies it in every worker process it starts."""
 
-from pythonjsonlogger.json import JsonFormatter
+from typing import Any
 
 LOGGER = "traptally"
 REQUESTS = f"{LOGGER}.requests"
 
-
-def configure_logging(level: int = logging.INFO) -> None:
-    """Send the program's log (and uvicorn's own errors) to standard error as JSON lines."""
-    handler = logging.StreamHandler(sys.stderr)
-    handler.setFormatter(
-        JsonFormatter(
-            "{asctime}{levelname}{name}{message}",
-            style="{",
-            rename_fields={"asctime": "time", "levelname": "level", "name": "logger"},
-        )
-    )
-    for name in (LOGGER, "uvicorn.error"):
-        logger = logging.getLogger(name)
-        logger.handlers = [handler]
-        logger.setLevel(level)
-        logger.propagate = False
+LOG_CONFIG: dict[str, Any] = {
+    "version": 1,
+    "disable_existing_loggers": False,
+    "formatters": {
+        "json": {
+            "()": "pythonjsonlogger.json.JsonFormatter",
+            "fmt": "{asctime}{levelname}{name}{message}",
+            "style": "{",
+            "rename_fields": {"asctime": "time", "levelname": "level", "name": "logger"},
+        }
+    },
+    "handlers": {
+        "stderr": {
+            "class": "logging.StreamHandler",
+            "formatter": "json",
+            "stream": "ext://sys.stderr",
+        }
+    },
+    "loggers": {
+        name: {"handlers": ["stderr"], "level": "INFO", "propagate": False}
+        for name in (LOGGER, "uvicorn", "uvicorn.error")
+    },
+}

@@ -3,13 +3,21 @@
 import getpass
 import hashlib
 import io
+import json
+import os
+import socket
+import subprocess
+import sys
+import time
 from pathlib import Path
 from typing import Any
 
+import httpx
 import pytest
 from sqlalchemy import text
 
 from service import cli
+from service.logs import LOG_CONFIG
 from service.settings import DATABASE_URL_VARIABLE, DEFAULT_DATABASE_URL, Settings
 from service.store.database import Database
 
@@ -18,9 +26,6 @@ from service.store.database import Database
 def served(monkeypatch: pytest.MonkeyPatch) -> list[dict[str, Any]]:
     calls: list[dict[str, Any]] = []
     monkeypatch.setattr("uvicorn.run", lambda app, **options: calls.append(options))
-    # The log's set-up is tested on its own (tests/web/test_operations.py); here it would
-    # take the program's logger from pytest's capture for the rest of the run.
-    monkeypatch.setattr(cli, "configure_logging", lambda: None)
     return calls
 
 
@@ -29,7 +34,9 @@ def test_serve_upgrades_a_sqlite_file_and_starts_uvicorn(
 ) -> None:
     url = f"sqlite:///{tmp_path / 'new.db'}"
     assert cli.main(["serve", "--host", "0.0.0.0", "--port", "8123", "--database-url", url]) == 0
-    assert served == [{"host": "0.0.0.0", "port": 8123, "log_config": None, "access_log": False}]
+    assert served == [
+        {"host": "0.0.0.0", "port": 8123, "log_config": LOG_CONFIG, "access_log": False}
+    ]
     assert Database.at(url).schema_is_current()
 
 
@@ -122,3 +129,43 @@ def test_serve_demo_prints_each_demo_account_once(
         assert f"sign in as demo-{role} with password " in printed
     assert cli.main(["serve", "--demo", "--database-url", url]) == 0
     assert "with password" not in capsys.readouterr().out
+
+
+def test_serve_with_workers_hands_each_the_app_factory_and_the_database(
+    served: list[dict[str, Any]], tmp_path: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    monkeypatch.delenv(DATABASE_URL_VARIABLE, raising=False)
+    url = f"sqlite:///{tmp_path / 'workers.db'}"
+    monkeypatch.setattr(
+        "uvicorn.run", lambda app, **options: served.append({"app": app, **options})
+    )
+    assert cli.main(["serve", "--workers", "3", "--database-url", url]) == 0
+    assert served[0]["app"] == cli.APP_FACTORY
+    assert (served[0]["factory"], served[0]["workers"]) == (True, 3)
+    assert os.environ[DATABASE_URL_VARIABLE] == url
+
+
+def test_two_worker_processes_serve_and_log_json(tmp_path: Path) -> None:
+    # A real server: `traptally serve --workers 2` on a free loopback port.
+    with socket.socket() as probe:
+        probe.bind(("127.0.0.1", 0))
+        port = probe.getsockname()[1]
+    command = [str(Path(sys.executable).parent / "traptally"), "serve", "--workers", "2"]
+    command += ["--port", str(port), "--database-url", f"sqlite:///{tmp_path / 'w.db'}"]
+    server = subprocess.Popen(command, stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True)
+    try:
+        deadline = time.monotonic() + 30
+        answers: list[int] = []
+        while time.monotonic() < deadline and len(answers) < 10:
+            try:
+                answers.append(httpx.get(f"http://127.0.0.1:{port}/api/v1/health").status_code)
+            except httpx.TransportError:
+                time.sleep(0.2)
+        assert answers == [200] * 10
+    finally:
+        server.terminate()
+        _, log = server.communicate(timeout=30)
+    lines = [json.loads(line) for line in log.splitlines() if line.startswith("{")]
+    requests = [line for line in lines if line.get("message") == "request"]
+    assert len(requests) == 10
+    assert {line["path"] for line in requests} == {"/api/v1/health"}

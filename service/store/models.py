@@ -290,6 +290,19 @@ class UserSession(Base):
     user: Mapped[User] = relationship()
 
 
+class SignInFailure(Base):
+    """A failed sign-in, counted against the name tried and the client's address in a
+    moving window. Kept in the database so that every worker process counts the same."""
+
+    __tablename__ = "sign_in_failures"
+    __table_args__ = (Index("ix_sign_in_failures_kind_key_at", "kind", "key", "at"),)
+
+    id: Mapped[int] = mapped_column(primary_key=True)
+    kind: Mapped[str] = mapped_column(String(10))  # "account" or "address"
+    key: Mapped[str] = mapped_column(String(200))
+    at: Mapped[dt.datetime] = mapped_column(UtcDateTime)
+
+
 class ApiToken(Base):
     """A bearer token for an integration, acting as its user. Stored as its SHA-256 only."""
 

@@ -9,7 +9,7 @@ from fastapi.exceptions import RequestValidationError
 from pydantic import BaseModel, ValidationError
 
 from service import __version__
-from service.accounts.sign_in_limits import SignInLimiter
+from service.accounts.sign_in_limits import SignInLimits
 from service.reports.cache import RollupCache
 from service.settings import Settings
 from service.shipped import STATIC
@@ -89,9 +89,8 @@ def create_app(database: Database | None = None, settings: Settings | None = Non
     app.state.database = store
     app.state.rollups = RollupCache()
     app.state.settings = settings
-    app.state.sign_in_limiter = SignInLimiter(
-        per_account=settings.sign_in_failures_per_account,
-        per_address=settings.sign_in_failures_per_address,
+    app.state.sign_in_limits = SignInLimits.of(
+        settings.sign_in_failures_per_account, settings.sign_in_failures_per_address
     )
     for router in API_ROUTERS:
         app.include_router(

@@ -3,6 +3,7 @@ files cached by fingerprint, a JSON request log with ids and no secrets, and bac
 
 import json
 import logging
+import logging.config
 import re
 import sqlite3
 from pathlib import Path
@@ -12,7 +13,7 @@ import pytest
 from fastapi.testclient import TestClient
 
 from service import cli
-from service.logs import REQUESTS, configure_logging
+from service.logs import LOG_CONFIG, REQUESTS
 from service.store.database import Database
 from service.store.models import Role
 from service.web.static import fingerprint
@@ -135,20 +136,18 @@ def test_an_unexpected_error_is_logged_with_the_id_the_answer_carries(
 
 
 def test_the_log_is_one_json_object_a_line(capsys: pytest.CaptureFixture[str]) -> None:
-    logger = logging.getLogger("traptally")
-    kept: dict[str, Any] = {
-        "handlers": logger.handlers[:],
-        "level": logger.level,
-        "propagate": logger.propagate,
-    }
+    loggers = [logging.getLogger(name) for name in LOG_CONFIG["loggers"]]
+    kept: list[dict[str, Any]] = [
+        {**vars(logger), "handlers": logger.handlers[:]} for logger in loggers
+    ]
     try:
-        configure_logging()
+        logging.config.dictConfig(LOG_CONFIG)
         logging.getLogger(REQUESTS).info(
             "request", extra={"request_id": "abc12345", "status": 200, "path": "/"}
         )
-    finally:
-        logger.handlers, logger.propagate = kept["handlers"], kept["propagate"]
-        logger.setLevel(kept["level"])
+    finally:  # give pytest its loggers back
+        for logger, state in zip(loggers, kept, strict=True):
+            vars(logger).update(state)
     line = json.loads(capsys.readouterr().err.strip().splitlines()[-1])
     assert line["message"] == "request"
     assert (line["level"], line["logger"], line["request_id"], line["status"]) == (

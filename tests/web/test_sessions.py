@@ -13,7 +13,7 @@ from sqlalchemy import func, select, update
 from service.accounts import users
 from service.accounts.passwords import hash_password, password_problem
 from service.store.database import Database
-from service.store.models import AuditEntry, Role, Site, Survey, User, UserSession
+from service.store.models import AuditEntry, Role, SignInFailure, Site, Survey, User, UserSession
 from service.web.app import create_app
 from tests.factories import (
     PASSWORD,
@@ -116,8 +116,23 @@ def test_failed_sign_ins_are_limited_per_account_then_the_right_user_waits_not_f
     assert 0 < int(limited.headers["retry-after"]) <= 15 * 60
     assert "Too many failed sign-ins" in limited.text
     assert _sign_in(browser, "tomas").status_code == 303  # another account is not locked out
-    app.state.sign_in_limiter.succeeded("maria")  # as when the window has passed
+    with sqlite_database.writing() as session:  # as when the window has passed
+        for failure in session.scalars(select(SignInFailure)):
+            failure.at -= dt.timedelta(minutes=15)
     assert _sign_in(_browser(app), "maria").status_code == 303
+
+
+def test_every_worker_process_counts_the_same_failures(sqlite_database: Database) -> None:
+    # Two apps on one database stand for two worker processes of `traptally serve`.
+    from tests.conftest import emptied
+
+    first, second = create_app(emptied(sqlite_database)), create_app(sqlite_database)
+    _manager(sqlite_database)
+    for number in range(5):
+        worker = first if number % 2 else second
+        assert _sign_in(_browser(worker), "maria", "guess-guess").status_code == 401
+    assert _sign_in(_browser(first), "maria").status_code == 429
+    assert _sign_in(_browser(second), "maria").status_code == 429
 
 
 def test_failed_sign_ins_are_limited_per_client_address(

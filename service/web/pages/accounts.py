@@ -20,7 +20,7 @@ from service.accounts.passwords import (
     password_matches,
     spend_time_as_if_checking,
 )
-from service.accounts.sign_in_limits import SignInLimiter
+from service.accounts.sign_in_limits import SignInLimits
 from service.store.errors import FieldError
 from service.store.models import User
 from service.web.access import (
@@ -103,8 +103,8 @@ def sign_in_form(request: Request, viewer: SignedIn, next: str = "/") -> Respons
     return _sign_in_page(request, Form({}), _safe_next(next))
 
 
-def _limiter(request: Request) -> SignInLimiter:
-    found: SignInLimiter = request.app.state.sign_in_limiter
+def _limits(request: Request) -> SignInLimits:
+    found: SignInLimits = request.app.state.sign_in_limits
     return found
 
 
@@ -121,8 +121,10 @@ async def sign_in(request: Request, db: Db) -> Response:
     name = form.text("name")
     password = form.typed.get("password", "")
     address = request.client.host if request.client else "unknown"
-    limiter = _limiter(request)
-    wait_s = limiter.wait_seconds(name, address)
+    limits = _limits(request)
+    now = dt.datetime.now(dt.UTC)
+    with db.reading() as session:
+        wait_s = limits.wait_seconds(session, account=name, address=address, now=now)
     if wait_s:
         refused = _sign_in_page(
             request,
@@ -144,18 +146,16 @@ async def sign_in(request: Request, db: Db) -> Response:
             and password_matches(user.password_hash, password)
         )
         user_id = user.id if user is not None else 0
-    if accepted:
-        with db.writing() as session:
-            signed = session.get(User, user_id)
-            assert signed is not None
-            secret, _ = sessions.start_session(
-                session, signed, settings(request).session_limits, dt.datetime.now(dt.UTC)
-            )
     if not accepted:
-        limiter.failed(name, address)
+        with db.writing() as session:
+            limits.failed(session, account=name, address=address, now=now)
         form.errors["password"] = "That user name and password do not match an active account."
         return _sign_in_page(request, form, next_path, status_code=401)
-    limiter.succeeded(name)
+    with db.writing() as session:
+        signed = session.get(User, user_id)
+        assert signed is not None
+        secret, _ = sessions.start_session(session, signed, settings(request).session_limits, now)
+        limits.succeeded(session, account=name)
     response = RedirectResponse(next_path, status_code=303)
     _set_session_cookie(request, response, secret)
     response.delete_cookie(SIGN_IN_COOKIE, path="/sign-in")
