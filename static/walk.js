@@ -20,7 +20,9 @@ document.addEventListener("DOMContentLoaded", () => {
     show("saving", "Saving… keep this page open.");
     let answer;
     try {
-      answer = await fetch(form.action, { method: "POST", body: new FormData(form), credentials: "same-origin" });
+      // The button pressed is part of the form ("Checked: save as found" confirms).
+      const body = new FormData(form, event.submitter);
+      answer = await fetch(form.action, { method: "POST", body, credentials: "same-origin" });
     } catch (error) {
       buttons.forEach((button) => { button.disabled = false; });
       show("failed", "Not saved: the server could not be reached. Your entry is still here. " +

@@ -31,6 +31,7 @@ from service.physics.trap_loss import CondensateDestination, TrapLoss, TrapServi
 from service.reports.pricing import SitePricing
 from service.store.latest import is_latest_finding
 from service.store.models import Area, Finding, Repair, Site, Survey, Trap
+from service.store.register import ROUTE_ORDER
 from service.store.vocabulary import Application, RecommendedAction, RepairKind, TrapType
 
 NO_AREA = "(no area)"
@@ -323,7 +324,7 @@ def summary_rows(session: Session, site: Site, survey: Survey | None) -> list[Su
         .outerjoin(Area, Area.id == Trap.area_id)
         .outerjoin(Finding, is_latest_finding(survey_id=survey.id if survey else -1))
         .where(Trap.site_id == site.id, or_(Trap.in_service, Finding.id.is_not(None)))
-        .order_by(Area.route_order, Area.name, Trap.route_position, Trap.tag)
+        .order_by(*ROUTE_ORDER)
     )
     return [SummaryRow._make(row) for row in session.execute(query)]
 

@@ -13,6 +13,7 @@ from sqlalchemy.orm import Session
 from service.store.csv_format import write_table
 from service.store.imports import FINDINGS, REGISTER, REPAIRS, ImportFormat
 from service.store.models import Area, Finding, Repair, Site, Survey, Trap
+from service.store.register import ROUTE_ORDER
 
 
 def _headers(spec: ImportFormat) -> list[str]:
@@ -55,7 +56,7 @@ def register_csv(*, session: Session, site: Site) -> str:
         select(Trap, Area.name)
         .outerjoin(Area, Area.id == Trap.area_id)
         .where(Trap.site_id == site.id)
-        .order_by(Area.route_order, Area.name, Trap.route_position, Trap.tag)
+        .order_by(*ROUTE_ORDER)
     )
     return write_table(*_table(REGISTER, rows, "area"))
 

@@ -313,8 +313,10 @@ def _plan(
 
 def plan_register(*, session: Session, site: Site, content: bytes) -> ImportPlan[TrapCreate]:
     """Check a register file against the site: every problem, nothing written."""
+    # Tags are one tag whatever their case ("HP-01", "hp-01"), as the register holds them.
     stored = {
-        trap.tag: trap for trap in session.scalars(select(Trap).where(Trap.site_id == site.id))
+        trap.tag.lower(): trap
+        for trap in session.scalars(select(Trap).where(Trap.site_id == site.id))
     }
     seen: dict[str, int] = {}
 
@@ -322,17 +324,19 @@ def plan_register(*, session: Session, site: Site, content: bytes) -> ImportPlan
         row: int, fields: dict[str, Any], problems: list[Problem]
     ) -> tuple[int | None, int | None]:
         tag = fields.get("tag", "")
-        if tag in seen:
-            problems.append(Problem(row, "tag", f"tag '{tag}' is also on row {seen[tag]}"))
-        seen[tag] = row
+        if tag.lower() in seen:
+            earlier = seen[tag.lower()]
+            problems.append(Problem(row, "tag", f"tag '{tag}' is also on row {earlier}"))
+        seen[tag.lower()] = row
         for name in ("inlet_pressure_kpa_g", "return_pressure_kpa_g"):
             if name in fields:
                 try:
                     register.check_pressure(site, name, fields[name])
                 except FieldError as error:
                     problems.append(Problem(row, name, str(error)))
-        known = stored.get(tag)
+        known = stored.get(tag.lower())
         if known is not None:
+            fields["tag"] = known.tag  # the register's spelling of it stays
             # Columns the file leaves out keep their stored values.
             for name in TrapCreate.model_fields:
                 fields.setdefault(name, getattr(known, name))
@@ -385,10 +389,10 @@ def _trap_of(
     row: int, fields: dict[str, Any], traps: dict[str, int], problems: list[Problem]
 ) -> int | None:
     tag = fields.pop("tag", "")
-    if tag not in traps:
+    if tag.lower() not in traps:
         problems.append(Problem(row, "tag", f"no trap tagged '{tag}' in the register"))
         return None
-    return traps[tag]
+    return traps[tag.lower()]
 
 
 def _apply(
@@ -412,7 +416,9 @@ def _apply(
 
 
 def _trap_ids(session: Session, site_id: int) -> dict[str, int]:
-    return dict(session.execute(select(Trap.tag, Trap.id).where(Trap.site_id == site_id)).all())
+    """Each trap's id by its tag in lower case: a file may write a tag in any case."""
+    rows = session.execute(select(Trap.tag, Trap.id).where(Trap.site_id == site_id))
+    return {tag.lower(): trap_id for tag, trap_id in rows}
 
 
 def plan_findings(*, session: Session, survey: Survey, content: bytes) -> ImportPlan[FindingCreate]:

@@ -177,6 +177,17 @@ def _check_pressures(site: Site, inlet_kpa_g: float, return_kpa_g: float) -> Non
     check_pressure(site, "return_pressure_kpa_g", return_kpa_g)
 
 
+# The order a technician walks: areas by their route order, traps by their position in
+# the area, then by tag. Unplaced areas and traps come last on every database (SQLite
+# sorts NULL first and PostgreSQL last unless told).
+ROUTE_ORDER = (
+    Area.route_order.asc().nulls_last(),
+    Area.name,
+    Trap.route_position.asc().nulls_last(),
+    Trap.tag,
+)
+
+
 def _check_trap(session: Session, site: Site, data: TrapCreate, trap_id: int | None) -> None:
     if data.area_id is not None:
         area = session.get(Area, data.area_id)
@@ -191,13 +202,16 @@ def _check_trap(session: Session, site: Site, data: TrapCreate, trap_id: int | N
             live_steam(inlet_kpa_abs, data.steam_temperature_c)
         except ValueError as error:
             raise FieldError("steam_temperature_c", str(error)) from error
+    # "HP-01" and "hp-01" are one tag on a label: compared without regard to case.
     clash = session.scalar(
-        select(Trap.id).where(
-            Trap.site_id == site.id, Trap.tag == data.tag, Trap.id != (trap_id or -1)
+        select(Trap.tag).where(
+            Trap.site_id == site.id,
+            func.lower(Trap.tag) == data.tag.lower(),
+            Trap.id != (trap_id or -1),
         )
     )
     if clash is not None:
-        raise ConflictError(f"the site already has a trap tagged '{data.tag}'")
+        raise ConflictError(f"the site already has a trap tagged '{clash}'")
 
 
 def create_trap(*, session: Session, site: Site, data: TrapCreate) -> Trap:
@@ -206,6 +220,31 @@ def create_trap(*, session: Session, site: Site, data: TrapCreate) -> Trap:
     session.add(trap)
     session.flush()
     return trap
+
+
+def place_after(*, session: Session, trap: Trap, found_after: Trap) -> None:
+    """Put a trap found in the field right after the trap where it was found, in that
+    trap's area: the traps after it in the area move down one place, in the same order."""
+    trap.area_id = found_after.area_id
+    position = found_after.route_position
+    if position is None:  # an unplaced trap: the new one goes among the unplaced, by tag
+        trap.route_position = None
+        session.flush()
+        return
+    following = session.scalars(
+        select(Trap).where(
+            Trap.site_id == trap.site_id,
+            Trap.area_id == found_after.area_id
+            if found_after.area_id is not None
+            else Trap.area_id.is_(None),
+            Trap.route_position > position,
+            Trap.id != trap.id,
+        )
+    )
+    for each in following:
+        each.route_position = (each.route_position or 0) + 1
+    trap.route_position = position + 1
+    session.flush()
 
 
 def trap_as_input(trap: Trap) -> dict[str, Any]:
@@ -263,7 +302,7 @@ def list_traps(
         select(Trap)
         .outerjoin(Area, Trap.area_id == Area.id)
         .where(Trap.site_id == site.id)
-        .order_by(Area.route_order, Area.name, Trap.route_position, Trap.tag)
+        .order_by(*ROUTE_ORDER)
     )
     if where.area_id is not None:
         query = query.where(Trap.area_id == where.area_id)

@@ -180,8 +180,71 @@ def test_a_finding_can_be_recorded_with_the_keyboard_alone(
     page.locator("input[name=method]").first.focus()
     page.keyboard.press("Space")
     page.locator("#f-upstream_temperature").focus()
-    page.keyboard.type("150")
+    page.keyboard.type("178")  # near saturation at the trap's inlet: a reading that agrees
     with page.expect_navigation():
         page.keyboard.press("Enter")
     expect(page.get_by_role("status").first).to_contain_text("Saved on the server")
     page.close()
+
+
+PHONE_PORTRAIT: ViewportSize = {"width": 390, "height": 844}
+
+
+def _round_in_progress(base: str, api_headers: dict[str, str], name: str) -> int:
+    answer = httpx.post(
+        f"{base}/api/v1/sites/1/surveys",
+        json={"name": name, "started_on": "2026-11-02"},
+        headers=api_headers,
+    )
+    assert answer.status_code == 201, answer.text
+    return int(answer.json()["id"])
+
+
+@pytest.mark.parametrize("viewport", [TABLET_PORTRAIT, PHONE_PORTRAIT], ids=["tablet", "phone"])
+def test_save_is_in_view_without_scrolling(
+    live_server: tuple[str, Database],
+    browser: Browser,
+    api_headers: dict[str, str],
+    viewport: ViewportSize,
+) -> None:
+    base, _ = live_server
+    survey_id = _round_in_progress(base, api_headers, f"In view {viewport['width']}")
+    context = browser.new_context(viewport=viewport, has_touch=True)
+    page = context.new_page()
+    sign_in(page, base, name="fieldtech", then=f"/surveys/{survey_id}/walk/traps/3")
+    save = page.get_by_role("button", name="Save and go to the next trap")
+    box = save.bounding_box()
+    assert box is not None
+    assert page.evaluate("window.scrollY") == 0
+    assert box["y"] >= 0
+    assert box["y"] + box["height"] <= viewport["height"]
+    context.close()
+
+
+def test_a_working_trap_takes_two_taps_once_the_method_is_pinned(
+    live_server: tuple[str, Database], browser: Browser, api_headers: dict[str, str]
+) -> None:
+    base, _ = live_server
+    survey_id = _round_in_progress(base, api_headers, "Two taps")
+    context = browser.new_context(viewport=TABLET_PORTRAIT, has_touch=True)
+    page = context.new_page()
+    sign_in(page, base, name="fieldtech", then=f"/surveys/{survey_id}/walk/traps/1")
+    page.locator("label.condition-choice").filter(has_text="Working").tap()
+    page.get_by_label("Ultrasonic", exact=True).tap()
+    page.get_by_label("Keep this method for the next traps").tap()
+    with page.expect_navigation():
+        page.get_by_role("button", name="Save and go to the next trap").tap()
+    # The next trap: two taps, Working and Save, with no scrolling between them.
+    next_url = page.url
+    page.locator("label.condition-choice").filter(has_text="Working").tap()
+    assert page.evaluate("window.scrollY") == 0
+    with page.expect_navigation():
+        page.get_by_role("button", name="Save and go to the next trap").tap()
+    assert page.url != next_url
+    expect(page.get_by_role("status").first).to_contain_text("Saved on the server")
+    findings = httpx.get(f"{base}/api/v1/surveys/{survey_id}/findings", headers=api_headers).json()[
+        "items"
+    ]
+    assert [(f["condition"], f["method"]) for f in findings] == [("working", "ultrasonic")] * 2
+    assert {f["tested_by"] for f in findings} == {"fieldtech"}
+    context.close()

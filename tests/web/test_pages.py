@@ -197,6 +197,7 @@ def test_temperatures_are_read_in_the_sites_units(api: TestClient, demo: dict[st
             "condition": "working",
             "method": "temperature",
             "upstream_temperature": "212",
+            "confirmed": "yes",  # 100 °C before a working 1,000 kPa(g) trap: asked to confirm
         },
     )
     stored = api.get(f"/api/v1/surveys/{survey['id']}/findings").json()["items"][0]

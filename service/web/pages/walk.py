@@ -16,6 +16,9 @@ from pydantic import ValidationError
 from sqlalchemy.orm import Session
 
 from service.accounts.roles import Permission
+from service.physics.conditions import TrapCondition
+from service.physics.evidence import Doubt, temperature_doubts
+from service.physics.pressure import absolute_from_gauge
 from service.physics.trap_loss import CondensateDestination
 from service.physics.units import Dimension
 from service.reports.summary import SummaryRow, summary_rows
@@ -32,8 +35,11 @@ from service.web.pages.templating import display_for, page
 
 router = APIRouter(include_in_schema=False)
 
-REMEMBERED = ("tested_by", "method")  # kept in a cookie from one save to the next
+# Kept in a cookie from one save to the next: the name a manager typed, and the test
+# method only while the technician pins it (a method carried over unseen is a wrong one).
 COOKIE_PREFIX = "traptally_walk_"
+TESTED_BY_COOKIE, PINNED_METHOD_COOKIE = COOKIE_PREFIX + "tested_by", COOKIE_PREFIX + "method"
+REMEMBERED_DAYS = 14
 
 
 def _route(session: Session, site: Site, survey: Survey) -> list[SummaryRow]:
@@ -68,14 +74,20 @@ def walk(
     db: Db,
     viewer: Reading,
     area: str | None = None,
+    retest: bool = False,
     offset: Annotated[int, Query(ge=0)] = 0,
 ) -> HTMLResponse:
+    """The route; with `retest`, only the traps found not accessible in this round, to
+    try again (a ladder fetched, a guard removed)."""
     with db.reading() as session:
         survey = viewer.get(session, Survey, survey_id)
         site = viewer.get(session, Site, survey.site_id)
         route = _route(session, site, survey)
         areas = list(dict.fromkeys(row.area_name or "(no area)" for row in route))
+        not_accessible = [r for r in route if r.condition == TrapCondition.NOT_ACCESSIBLE]
         shown = [row for row in route if area in (None, "", row.area_name or "(no area)")]
+        if retest:
+            shown = [row for row in shown if row.condition == TrapCondition.NOT_ACCESSIBLE]
         done = sum(row.finding_id is not None for row in route)
         return page(
             request,
@@ -85,6 +97,8 @@ def walk(
             route=shown[offset : offset + ROUTE_PAGE],
             areas=areas,
             area=area or "",
+            retest=retest,
+            not_accessible=len(not_accessible),
             done=done,
             total=len(route),
             shown=len(shown),
@@ -92,6 +106,44 @@ def walk(
             page_size=ROUTE_PAGE,
             next_trap=_next_untested(shown, None),
         )
+
+
+# What a reading that disagrees with the finding suggests, in the trade's words; the
+# first figure is the reading, the second the temperature it is set against.
+DOUBT_WORDS: dict[Doubt, str] = {
+    Doubt.BACKED_UP: "The temperature before the trap, {reading}, is far below saturation at "
+    "its inlet pressure, {against}: condensate backing up (a flooded or plugged trap) or a "
+    "line out of use reads like this.",
+    Doubt.STEAM_PASSING: "The temperature after the trap, {reading}, is close to saturation "
+    "at its inlet pressure, {against}, well above its return's: live steam passing the trap "
+    "reads like this.",
+    Doubt.HOT_INLET: "The temperature before the trap, {reading}, is at saturation, "
+    "{against}: a plugged trap usually backs condensate up and reads cooler before it.",
+    Doubt.OUTLET_HOTTER: "The temperature after the trap, {reading}, is hotter than before "
+    "it, {against}: check both readings.",
+}
+
+
+def _doubts(site: Site, trap: Trap, data: FindingCreate) -> list[str]:
+    """What the temperatures typed suggest against the finding, in words and site units."""
+    show = display_for(site)
+    found = temperature_doubts(
+        condition=data.condition,
+        inlet_pressure_kpa_abs=absolute_from_gauge(
+            trap.inlet_pressure_kpa_g, site.atmospheric_pressure_kpa
+        ),
+        return_pressure_kpa_abs=absolute_from_gauge(
+            trap.return_pressure_kpa_g, site.atmospheric_pressure_kpa
+        ),
+        upstream_c=data.upstream_temperature_c,
+        downstream_c=data.downstream_temperature_c,
+    )
+    return [
+        DOUBT_WORDS[doubt.doubt].format(
+            reading=show.temperature(doubt.reading_c), against=show.temperature(doubt.against_c)
+        )
+        for doubt in found
+    ]
 
 
 def _finding_page(
@@ -102,6 +154,7 @@ def _finding_page(
     form: Form,
     *,
     saved: Finding | None = None,
+    doubts: list[str] | None = None,
     status_code: int = 200,
 ) -> HTMLResponse:
     site = get(session, Site, survey.site_id)
@@ -123,17 +176,22 @@ def _finding_page(
         history=list(reversed(earlier))[:3],
         methods=list(TestMethod),
         actions=list(RecommendedAction),
+        doubts=doubts or [],
         status_code=status_code,
     )
 
 
 def _blank_form(request: Request) -> Form:
-    typed = {name: request.cookies.get(COOKIE_PREFIX + name, "") for name in REMEMBERED}
+    pinned = request.cookies.get(PINNED_METHOD_COOKIE, "")
+    typed = {
+        "tested_by": request.cookies.get(TESTED_BY_COOKIE, ""),
+        "method": pinned,
+        "pin_method": "yes" if pinned else "",
+    }
     typed["idempotency_key"] = uuid.uuid4().hex
     # When the form was opened: the finding's moment unless one is typed. Sent with the
     # form, so a save retried after a dropped connection is the very same finding.
     typed["opened_at"] = dt.datetime.now(dt.UTC).replace(microsecond=0).isoformat()
-    typed.setdefault("method", "")
     return Form(typed)
 
 
@@ -204,6 +262,9 @@ async def save_finding(
         if form.ok:
             try:
                 data = FindingCreate.model_validate(fields)
+                doubts = [] if form.text("confirmed") == "yes" else _doubts(site, trap, data)
+                if doubts:
+                    return _finding_page(request, session, survey, trap, form, doubts=doubts)
                 finding, _ = surveys.record_finding(
                     session=session,
                     survey=survey,
@@ -234,14 +295,15 @@ async def save_finding(
         else f"/surveys/{survey_id}/walk?saved={finding.id}"
     )
     answer = RedirectResponse(target, status_code=303)
-    for name in REMEMBERED:
-        answer.set_cookie(
-            COOKIE_PREFIX + name,
-            form.text(name),
-            max_age=14 * 24 * 3600,
-            samesite="lax",
-            httponly=True,
-        )
+    kept = {TESTED_BY_COOKIE: form.text("tested_by")}
+    kept[PINNED_METHOD_COOKIE] = form.text("method") if form.text("pin_method") == "yes" else ""
+    for name, value in kept.items():
+        if value:
+            answer.set_cookie(
+                name, value, max_age=REMEMBERED_DAYS * 24 * 3600, samesite="lax", httponly=True
+            )
+        else:
+            answer.delete_cookie(name)
     return answer
 
 
@@ -267,10 +329,22 @@ def _new_trap_page(
 
 
 @router.get("/surveys/{survey_id}/walk/new-trap", response_class=HTMLResponse)
-def new_trap_form(request: Request, survey_id: RecordId, db: Db, viewer: Recording) -> HTMLResponse:
+def new_trap_form(
+    request: Request,
+    survey_id: RecordId,
+    db: Db,
+    viewer: Recording,
+    after: OptionalRecordIdQuery = None,
+) -> HTMLResponse:
+    """`after`: the trap where this one was found; the new trap goes next to it."""
     with db.reading() as session:
         survey = viewer.get(session, Survey, survey_id)
-        return _new_trap_page(request, session, survey, Form({}))
+        typed: dict[str, str] = {}
+        if after is not None:
+            found_after = _trap_of_survey(session, survey, after)
+            typed = {"after": str(after), "area_id": str(found_after.area_id or "")}
+            typed["location"] = f"Near {found_after.tag}"
+        return _new_trap_page(request, session, survey, Form(typed))
 
 
 @router.post("/surveys/{survey_id}/walk/new-trap", response_class=HTMLResponse)
@@ -298,11 +372,15 @@ async def add_trap(request: Request, survey_id: RecordId, db: Db, viewer: Record
             "inlet_pressure_kpa_g": "inlet_pressure",
             "return_pressure_kpa_g": "return_pressure",
         }
+        after = record_id(form.text("after"))
+        found_after = _trap_of_survey(session, survey, after) if after is not None else None
         if form.ok:
             try:
                 trap = register.create_trap(
                     session=session, site=site, data=TrapCreate.model_validate(fields)
                 )
+                if found_after is not None:
+                    register.place_after(session=session, trap=trap, found_after=found_after)
             except (ValidationError, FieldError) as error:
                 form.absorb(error, names)
             except ConflictError as error:
