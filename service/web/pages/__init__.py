@@ -16,7 +16,9 @@ from service.web.pages import (
     site,
     summary,
     transfer,
+    trap_changes,
     walk,
+    work_orders,
 )
 
 ROUTERS: tuple[APIRouter, ...] = (
@@ -25,9 +27,11 @@ ROUTERS: tuple[APIRouter, ...] = (
     people.router,
     site.router,
     summary.router,
+    work_orders.router,
     downloads.router,
     settings.router,
     register.router,
+    trap_changes.router,
     walk.router,
     calculator.router,
     transfer.router,

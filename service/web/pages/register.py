@@ -1,5 +1,6 @@
 """The register: traps by area and route, searchable and filterable; a trap's own page."""
 
+import datetime as dt
 from enum import StrEnum
 from typing import Annotated, TypeVar
 from urllib.parse import urlencode
@@ -7,15 +8,18 @@ from urllib.parse import urlencode
 from fastapi import APIRouter, Query, Request
 from fastapi.responses import HTMLResponse
 from sqlalchemy import select
+from sqlalchemy.orm import Session
 
+from service.accounts.roles import Permission
 from service.physics.conditions import TrapCondition
 from service.reports.pricing import SitePricing
 from service.store import audit, register, surveys
 from service.store.latest import latest_conditions
 from service.store.models import Finding, Repair, Site, Survey, Trap
-from service.store.vocabulary import Application, TrapType
-from service.web.access import Reading
+from service.store.vocabulary import Application, RepairKind, TrapType
+from service.web.access import Reading, Viewer
 from service.web.dependencies import Db, RecordId, record_id
+from service.web.forms import Form
 from service.web.pages.templating import page
 
 router = APIRouter(include_in_schema=False)
@@ -85,40 +89,53 @@ def register_page(
 @router.get("/traps/{trap_id}", response_class=HTMLResponse)
 def trap_page(request: Request, trap_id: RecordId, db: Db, viewer: Reading) -> HTMLResponse:
     with db.reading() as session:
-        trap = viewer.get(session, Trap, trap_id)
-        site = viewer.get(session, Site, trap.site_id)
-        findings = session.execute(
-            select(Finding, Survey.name)
-            .join(Survey, Survey.id == Finding.survey_id)
-            .where(Finding.trap_id == trap.id)
-        ).all()
-        repairs = session.scalars(select(Repair).where(Repair.trap_id == trap.id)).all()
-        events = sorted(
-            [("finding", finding.tested_at.date(), finding, name) for finding, name in findings]
-            + [("repair", repair.repaired_on, repair, None) for repair in repairs],
-            key=lambda event: (event[1], event[0]),
+        return trap_page_answer(request, session, viewer.get(session, Trap, trap_id), viewer)
+
+
+def trap_page_answer(
+    request: Request,
+    session: Session,
+    trap: Trap,
+    viewer: Viewer,
+    repair_form: Form | None = None,
+    status_code: int = 200,
+) -> HTMLResponse:
+    """A trap's page; `repair_form` is a repair typed on it that was not recorded."""
+    site = viewer.get(session, Site, trap.site_id)
+    findings = session.execute(
+        select(Finding, Survey.name)
+        .join(Survey, Survey.id == Finding.survey_id)
+        .where(Finding.trap_id == trap.id)
+    ).all()
+    repairs = session.scalars(select(Repair).where(Repair.trap_id == trap.id)).all()
+    events = sorted(
+        [("finding", finding.tested_at.date(), finding, name) for finding, name in findings]
+        + [("repair", repair.repaired_on, repair, None) for repair in repairs],
+        key=lambda event: (event[1], event[0]),
+    )
+    latest = max(findings, key=lambda row: (row[0].tested_at, row[0].id))[0] if findings else None
+    loss = None
+    if latest is not None:
+        pricing = SitePricing.of(site)
+        service = pricing.trap_service(
+            trap,
+            condition=latest.condition,
+            loss_factor_override=latest.loss_factor_override,
+            upstream_temperature_c=latest.upstream_temperature_c,
         )
-        latest = (
-            max(findings, key=lambda row: (row[0].tested_at, row[0].id))[0] if findings else None
-        )
-        loss = None
-        if latest is not None:
-            pricing = SitePricing.of(site)
-            service = pricing.trap_service(
-                trap,
-                condition=latest.condition,
-                loss_factor_override=latest.loss_factor_override,
-                upstream_temperature_c=latest.upstream_temperature_c,
-            )
-            loss = pricing.loss(service)
-        return page(
-            request,
-            "trap.html",
-            site=site,
-            trap=trap,
-            events=list(reversed(events)),
-            latest=latest,
-            loss=loss,
-            surveys=surveys.surveys_of(session=session, site=site),
-            entries=audit.trail_of_trap(session, trap.id),
-        )
+        loss = pricing.loss(service)
+    return page(
+        request,
+        "trap.html",
+        site=site,
+        trap=trap,
+        events=list(reversed(events)),
+        latest=latest,
+        loss=loss,
+        surveys=surveys.surveys_of(session=session, site=site),
+        entries=audit.trail_of_trap(session, trap.id),
+        managing=viewer.may(Permission.MANAGE),
+        repair_form=repair_form or Form({"repaired_on": dt.date.today().isoformat()}),
+        repair_kinds=list(RepairKind),
+        status_code=status_code,
+    )

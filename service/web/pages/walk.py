@@ -19,7 +19,6 @@ from service.accounts.roles import Permission
 from service.physics.conditions import TrapCondition
 from service.physics.evidence import Doubt, temperature_doubts
 from service.physics.pressure import absolute_from_gauge
-from service.physics.trap_loss import CondensateDestination
 from service.physics.units import Dimension
 from service.reports.summary import SummaryRow, summary_rows
 from service.store import register, surveys
@@ -27,10 +26,11 @@ from service.store.errors import ConflictError, FieldError, NotFoundError
 from service.store.models import Finding, Site, Survey, Trap
 from service.store.records import get
 from service.store.schemas import FindingCreate, TrapCreate
-from service.store.vocabulary import Application, RecommendedAction, TestMethod, TrapType
+from service.store.vocabulary import RecommendedAction, TestMethod
 from service.web.access import NotPermitted, Reading, Recording, Viewer
 from service.web.dependencies import Db, OptionalRecordIdQuery, RecordId, record_id
 from service.web.forms import Form
+from service.web.pages import trap_form
 from service.web.pages.templating import display_for, page
 
 router = APIRouter(include_in_schema=False)
@@ -320,11 +320,8 @@ def _new_trap_page(
         site=site,
         survey=survey,
         form=form,
-        areas=register.areas_of(session=session, site=site),
-        applications=list(Application),
-        trap_types=list(TrapType),
-        destinations=list(CondensateDestination),
         status_code=status_code,
+        **trap_form.choices(session, site),
     )
 
 
@@ -353,25 +350,11 @@ async def add_trap(request: Request, survey_id: RecordId, db: Db, viewer: Record
     with db.writing(viewer.actor) as session:
         survey = viewer.get(session, Survey, survey_id)
         site = viewer.get(session, Site, survey.site_id)
-        show = display_for(site)
-        fields = {
-            "tag": form.text("tag"),
-            "area_id": record_id(form.text("area_id")),
-            "location": form.text("location"),
-            "application": form.text("application") or None,
-            "trap_type": form.text("trap_type") or None,
-            "orifice_diameter_mm": form.number("orifice_diameter", show, Dimension.LENGTH),
-            "inlet_pressure_kpa_g": form.number("inlet_pressure", show, Dimension.PRESSURE),
-            "return_pressure_kpa_g": form.number("return_pressure", show, Dimension.PRESSURE),
-            "condensate_destination": form.text("condensate_destination") or "closed_return",
-            "notes": form.text("notes") or "Added during the survey walk.",
-        }
+        # Left blank, a field takes the register's default.
+        typed = trap_form.trap_fields(form, display_for(site))
+        fields = {name: value for name, value in typed.items() if value not in (None, "")}
+        fields.setdefault("notes", "Added during the survey walk.")
         trap: Trap | None = None
-        names = {
-            "orifice_diameter_mm": "orifice_diameter",
-            "inlet_pressure_kpa_g": "inlet_pressure",
-            "return_pressure_kpa_g": "return_pressure",
-        }
         after = record_id(form.text("after"))
         found_after = _trap_of_survey(session, survey, after) if after is not None else None
         if form.ok:
@@ -382,7 +365,7 @@ async def add_trap(request: Request, survey_id: RecordId, db: Db, viewer: Record
                 if found_after is not None:
                     register.place_after(session=session, trap=trap, found_after=found_after)
             except (ValidationError, FieldError) as error:
-                form.absorb(error, names)
+                form.absorb(error, trap_form.FORM_NAMES)
             except ConflictError as error:
                 form.errors["tag"] = str(error)
         if trap is None:
