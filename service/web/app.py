@@ -23,6 +23,7 @@ from service.web.api import (
     findings,
     health,
     repairs,
+    session,
     sites,
     steam,
     surveys,
@@ -39,6 +40,7 @@ GZIP_MINIMUM_BYTES = 1000
 
 API_ROUTERS = (
     health.router,
+    session.router,
     steam.router,
     calc.router,
     sites.router,

@@ -47,6 +47,9 @@ def test_a_technician_walks_five_traps_and_one_save_survives_a_dropped_connectio
 
     def lose_the_answer(route: Route) -> None:
         # The save reaches the server, but its answer never reaches the tablet.
+        if route.request.method != "POST":
+            route.continue_()
+            return
         route.fetch()
         dropped.append(route.request.url)
         route.abort("connectionreset")
@@ -57,11 +60,13 @@ def test_a_technician_walks_five_traps_and_one_save_survives_a_dropped_connectio
         _record(tablet, condition, "176", "101")
         if number == 2:
             tablet.route(re.compile(r".*/walk/traps/\d+$"), lose_the_answer)
-            tablet.get_by_role("button", name=re.compile("Save and go")).click()
-            expect(tablet.locator("#save-status")).to_contain_text("Not saved")
+            # Kept on the tablet with its key, the walk goes on; sent again from the next
+            # page, the server answers with the finding it stored, so it is stored once.
+            with tablet.expect_navigation():
+                tablet.get_by_role("button", name=re.compile("Save and go")).click()
             tablet.unroute(re.compile(r".*/walk/traps/\d+$"))
-            # What was entered is still on the page; the same key is sent again.
-            expect(tablet.get_by_label("Temperature before the trap")).to_have_value("176")
+            expect(tablet.locator("#outbox")).to_be_hidden()
+            continue
         with tablet.expect_navigation():
             tablet.get_by_role("button", name=re.compile("Save and go")).click()
         expect(tablet.get_by_role("status").first).to_contain_text("Saved on the server")

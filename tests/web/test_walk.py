@@ -163,3 +163,48 @@ def test_tags_clash_whatever_their_case(api: TestClient, walk: dict[str, Any]) -
     assert (answer["creates"], answer["updates"]) == (0, 1)
     traps = api.get(f"/api/v1/sites/{walk['site']['id']}/traps").json()["items"]
     assert {trap["tag"]: trap["orifice_diameter_mm"] for trap in traps}["D-2"] == 5.0
+
+
+def test_the_round_for_offline_lists_the_route_and_each_traps_form(
+    api: TestClient, walk: dict[str, Any]
+) -> None:
+    survey_id = walk["survey"]["id"]
+    pages = api.get(f"/surveys/{survey_id}/walk/offline").json()["pages"]
+    walk_url = f"/surveys/{survey_id}/walk"
+    assert pages == [walk_url, *(f"{walk_url}/traps/{trap['id']}" for trap in walk["traps"])]
+
+
+def test_the_service_worker_is_served_for_the_walk_pages_scope(api: TestClient) -> None:
+    worker = TestClient(api.app).get("/surveys/walk-sw.js")  # no sign-in needed
+    assert worker.status_code == 200
+    assert worker.headers["content-type"].startswith("text/javascript")
+    assert worker.headers["cache-control"] == "no-cache"
+    assert 'addEventListener("fetch"' in worker.text
+
+
+def test_a_form_says_where_a_save_kept_offline_goes_next(
+    api: TestClient, walk: dict[str, Any]
+) -> None:
+    first, second, third = walk["traps"]
+    survey_id = walk["survey"]["id"]
+    assert (
+        f'data-next-url="/surveys/{survey_id}/walk/traps/{second["id"]}"'
+        in api.get(_path(walk, first)).text
+    )
+    assert f'data-next-url="/surveys/{survey_id}/walk"' in api.get(_path(walk, third)).text
+
+
+def test_the_session_gives_a_script_a_fresh_csrf_token(store: Any, api: TestClient) -> None:
+    from service.store.models import Role
+    from tests.factories import browser_session, make_user
+
+    user = make_user(store, "tablet", Role.TECHNICIAN)
+    secret, raw = browser_session(store, user)
+    with TestClient(api.app) as browser:
+        browser.cookies.set("traptally_session", secret)
+        first = browser.get("/api/v1/session").json()
+        second = browser.get("/api/v1/session").json()
+    assert (first["user"], first["role"]) == ("tablet", "technician")
+    assert first["csrf_token"] != second["csrf_token"] != raw  # masked afresh
+    assert api.get("/api/v1/session").json()["csrf_token"] is None  # a bearer token
+    assert TestClient(api.app).get("/api/v1/session").status_code == 401

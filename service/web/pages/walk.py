@@ -21,6 +21,7 @@ from service.physics.evidence import Doubt, temperature_doubts
 from service.physics.pressure import absolute_from_gauge
 from service.physics.units import Dimension
 from service.reports.summary import SummaryRow, summary_rows
+from service.shipped import STATIC
 from service.store import register, surveys
 from service.store.errors import ConflictError, FieldError, NotFoundError
 from service.store.models import Finding, Site, Survey, Trap
@@ -65,6 +66,29 @@ def site_walk(site_id: RecordId, db: Db, viewer: Reading) -> Response:
 
 
 ROUTE_PAGE = 60  # rows of the route on one page: light enough for a tablet on poor Wi-Fi
+
+
+@router.get("/surveys/walk-sw.js")
+def walk_service_worker() -> Response:
+    """The walk's service worker, served from /surveys/ so that its scope holds every
+    walk page (a worker's scope is at most the folder it is served from)."""
+    return Response(
+        (STATIC / "walk-sw.js").read_bytes(),
+        media_type="text/javascript",
+        headers={"Cache-Control": "no-cache"},  # a new version is picked up at once
+    )
+
+
+@router.get("/surveys/{survey_id}/walk/offline")
+def walk_for_offline(survey_id: RecordId, db: Db, viewer: Reading) -> dict[str, Any]:
+    """The pages a tablet keeps to walk this round without a connection: the route and
+    each trap's form, in route order."""
+    with db.reading() as session:
+        survey = viewer.get(session, Survey, survey_id)
+        site = viewer.get(session, Site, survey.site_id)
+        route = _route(session, site, survey)
+    walk_url = f"/surveys/{survey_id}/walk"
+    return {"pages": [walk_url, *(f"{walk_url}/traps/{row.trap_id}" for row in route)]}
 
 
 @router.get("/surveys/{survey_id}/walk", response_class=HTMLResponse)
@@ -160,6 +184,12 @@ def _finding_page(
     site = get(session, Site, survey.site_id)
     route = _route(session, site, survey)
     position = next((i for i, row in enumerate(route) if row.trap_id == trap.id), None)
+    # Where a save kept on the tablet (no connection) goes on to: the next trap in route
+    # order, as the server cannot say which are still untested.
+    following = route[position + 1] if position is not None and position + 1 < len(route) else None
+    next_url = f"/surveys/{survey.id}/walk" + (
+        f"/traps/{following.trap_id}" if following is not None else ""
+    )
     earlier = surveys.list_findings(session=session, trap=trap, limit=1000, offset=0).items
     return page(
         request,
@@ -177,6 +207,7 @@ def _finding_page(
         methods=list(TestMethod),
         actions=list(RecommendedAction),
         doubts=doubts or [],
+        next_url=next_url,
         status_code=status_code,
     )
 
