@@ -100,7 +100,7 @@ function problemItem(entry, text, action, dropped) {
 // Traps with more than one finding waiting: a decision before any of them is sent.
 function repeatedTraps(waiting) {
   const byTrap = new Map();
-  for (const entry of waiting.sort((a, b) => a.savedAt.localeCompare(b.savedAt))) {
+  for (const entry of waiting.sort((a, b) => a.keptAt - b.keptAt)) {
     byTrap.set(entry.action, [...(byTrap.get(entry.action) || []), entry]);
   }
   const twice = new Map();
@@ -189,7 +189,7 @@ async function keep(form, body, why) {
     fields: [...body.entries()].filter(([, value]) => typeof value === "string"),
     tag: form.dataset.tag,
     condition: body.get("condition") || "",
-    savedAt: nowUtc(),
+    keptAt: Date.now(), // milliseconds: two saves in one second keep their order
     problem: "",
   };
   await outbox.put(entry);
@@ -276,7 +276,48 @@ async function keepRound(line) {
   if (done === pages.length) localStorage.setItem(stamp, String(Date.now()));
 }
 
+// Read a trap's QR label with the camera, where the browser offers barcode detection;
+// typing the tag always works. The code holds the trap's address: the form takes it.
+async function scanTag(form) {
+  const video = document.getElementById("scanner");
+  let stream;
+  try {
+    stream = await navigator.mediaDevices.getUserMedia({ video: { facingMode: "environment" } });
+  } catch (error) {
+    return; // no camera, or not allowed: the tag can be typed
+  }
+  video.srcObject = stream;
+  video.hidden = false;
+  await video.play();
+  const detector = new BarcodeDetector({ formats: ["qr_code"] });
+  const stop = () => {
+    stream.getTracks().forEach((track) => track.stop());
+    video.hidden = true;
+  };
+  const deadline = Date.now() + 60 * 1000;
+  while (Date.now() < deadline) {
+    const codes = await detector.detect(video).catch(() => []);
+    if (codes.length) {
+      stop();
+      form.elements.tag.value = codes[0].rawValue;
+      form.submit();
+      return;
+    }
+    await new Promise((resolve) => setTimeout(resolve, 150));
+  }
+  stop();
+}
+
 document.addEventListener("DOMContentLoaded", async () => {
+  const finder = document.querySelector("form[data-find-tag]");
+  const scan = document.getElementById("scan-tag");
+  if (finder && scan && "BarcodeDetector" in window && navigator.mediaDevices) {
+    const formats = await BarcodeDetector.getSupportedFormats().catch(() => []);
+    if (formats.includes("qr_code")) {
+      scan.hidden = false;
+      scan.addEventListener("click", () => scanTag(finder));
+    }
+  }
   if (!window.fetch || !window.indexedDB) return;
   if ("serviceWorker" in navigator) {
     navigator.serviceWorker.register("/surveys/walk-sw.js", { scope: "/surveys/" }).catch(() => {});

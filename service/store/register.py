@@ -19,7 +19,7 @@ from service.physics.pressure import (
     absolute_from_gauge,
     atmospheric_pressure_at_elevation_kpa,
 )
-from service.store.errors import ConflictError, FieldError
+from service.store.errors import ConflictError, FieldError, NotFoundError
 from service.store.latest import is_latest_finding
 from service.store.models import Area, Finding, Repair, Site, Survey, Trap
 from service.store.records import Page, get, merged_input, paged
@@ -219,6 +219,17 @@ def create_trap(*, session: Session, site: Site, data: TrapCreate) -> Trap:
     trap = Trap(site_id=site.id, **data.model_dump())
     session.add(trap)
     session.flush()
+    return trap
+
+
+def trap_tagged(*, session: Session, site: Site, tag: str) -> Trap:
+    """The site's trap with this tag, whatever its case (a label read aloud or typed on a
+    tablet); NotFoundError names the tag."""
+    trap = session.scalar(
+        select(Trap).where(Trap.site_id == site.id, func.lower(Trap.tag) == tag.strip().lower())
+    )
+    if trap is None:
+        raise NotFoundError("trap tagged", tag.strip())
     return trap
 
 

@@ -109,6 +109,9 @@ TABLE: dict[tuple[str, str], tuple[str, bool, int]] = {
     ("POST", "/traps/{trap_id}/retire"): (M, True, 303),
     ("POST", "/traps/{trap_id}/repairs"): (M, True, 422),
     ("GET", "/sites/{site_id}/work-orders"): (R, True, 200),
+    ("GET", "/sites/{site_id}/labels"): (R, True, 200),
+    ("GET", "/sites/{site_id}/tags/{tag:path}"): (R, True, 404),
+    ("GET", "/surveys/{survey_id}/walk/find"): (R, True, 404),
     ("GET", "/sites/{site_id}/walk"): (R, True, 303),
     ("GET", "/surveys/{survey_id}/walk"): (R, True, 200),
     ("GET", "/surveys/{survey_id}/walk/traps/{trap_id}"): (R, True, 200),
@@ -180,9 +183,9 @@ class World:
         self.target_user = make_user(store, "someone", Role.TECHNICIAN)
 
     def url(self, path: str, ids: dict[str, int]) -> str:
-        values = {**ids, "suffix": "csv", "user_id": self.target_user}
+        values = {**ids, "suffix": "csv", "user_id": self.target_user, "tag": "NO-SUCH-TAG"}
         query = QUERIES.get(path, "").format(**values)
-        return path.format(**values) + (f"?{query}" if query else "")
+        return path.replace(":path}", "}").format(**values) + (f"?{query}" if query else "")
 
     def ask(self, method: str, url: str, role: Role | None) -> int:
         with TestClient(self.app, follow_redirects=False) as browser:

@@ -9,6 +9,7 @@ back from the database and says so: that is what "reached the server" means here
 import datetime as dt
 import uuid
 from typing import Annotated, Any
+from urllib.parse import unquote
 
 from fastapi import APIRouter, Query, Request
 from fastapi.responses import HTMLResponse, RedirectResponse, Response
@@ -105,31 +106,68 @@ def walk(
     try again (a ladder fetched, a guard removed)."""
     with db.reading() as session:
         survey = viewer.get(session, Survey, survey_id)
-        site = viewer.get(session, Site, survey.site_id)
-        route = _route(session, site, survey)
-        areas = list(dict.fromkeys(row.area_name or "(no area)" for row in route))
-        not_accessible = [r for r in route if r.condition == TrapCondition.NOT_ACCESSIBLE]
-        shown = [row for row in route if area in (None, "", row.area_name or "(no area)")]
-        if retest:
-            shown = [row for row in shown if row.condition == TrapCondition.NOT_ACCESSIBLE]
-        done = sum(row.finding_id is not None for row in route)
-        return page(
-            request,
-            "walk.html",
-            site=site,
-            survey=survey,
-            route=shown[offset : offset + ROUTE_PAGE],
-            areas=areas,
-            area=area or "",
-            retest=retest,
-            not_accessible=len(not_accessible),
-            done=done,
-            total=len(route),
-            shown=len(shown),
-            offset=offset,
-            page_size=ROUTE_PAGE,
-            next_trap=_next_untested(shown, None),
-        )
+        return _walk_page(request, session, survey, area, retest, offset)
+
+
+def _walk_page(
+    request: Request,
+    session: Session,
+    survey: Survey,
+    area: str | None = None,
+    retest: bool = False,
+    offset: int = 0,
+    find: Form | None = None,
+    status_code: int = 200,
+) -> HTMLResponse:
+    site = get(session, Site, survey.site_id)
+    route = _route(session, site, survey)
+    areas = list(dict.fromkeys(row.area_name or "(no area)" for row in route))
+    not_accessible = [r for r in route if r.condition == TrapCondition.NOT_ACCESSIBLE]
+    shown = [row for row in route if area in (None, "", row.area_name or "(no area)")]
+    if retest:
+        shown = [row for row in shown if row.condition == TrapCondition.NOT_ACCESSIBLE]
+    return page(
+        request,
+        "walk.html",
+        site=site,
+        survey=survey,
+        route=shown[offset : offset + ROUTE_PAGE],
+        areas=areas,
+        area=area or "",
+        retest=retest,
+        not_accessible=len(not_accessible),
+        done=sum(row.finding_id is not None for row in route),
+        total=len(route),
+        shown=len(shown),
+        offset=offset,
+        page_size=ROUTE_PAGE,
+        next_trap=_next_untested(shown, None),
+        find=find or Form({}),
+        status_code=status_code,
+    )
+
+
+@router.get("/surveys/{survey_id}/walk/find", response_class=HTMLResponse)
+def find_by_tag(
+    request: Request,
+    survey_id: RecordId,
+    db: Db,
+    viewer: Reading,
+    tag: Annotated[str, Query(max_length=200)] = "",
+) -> Response:
+    """Open a trap by its tag, typed or read from its label's QR code (which holds an
+    address ending in /tags/TAG: the tag is taken from it)."""
+    typed = unquote(tag.rsplit("/tags/", 1)[-1]) if "/tags/" in tag else tag
+    with db.reading() as session:
+        survey = viewer.get(session, Survey, survey_id)
+        site = get(session, Site, survey.site_id)
+        try:
+            trap = register.trap_tagged(session=session, site=site, tag=typed)
+        except NotFoundError:
+            find = Form({"tag": typed})
+            find.errors["tag"] = f"No trap tagged '{typed.strip()}' in this site's register."
+            return _walk_page(request, session, survey, find=find, status_code=404)
+    return RedirectResponse(f"/surveys/{survey_id}/walk/traps/{trap.id}", status_code=303)
 
 
 # What a reading that disagrees with the finding suggests, in the trade's words; the
