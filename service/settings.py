@@ -9,12 +9,16 @@ import datetime as dt
 import os
 from collections.abc import Mapping
 from dataclasses import dataclass
+from pathlib import Path
+
+from sqlalchemy.engine import make_url
 
 from service.accounts.sessions import SessionLimits
 
 DATABASE_URL_VARIABLE = "TRAPTALLY_DATABASE_URL"
 DEFAULT_DATABASE_URL = "sqlite:///traptally.db"
 PREFIX = "TRAPTALLY_"
+PHOTO_FOLDER_NAME = "traptally-photos"
 
 
 @dataclass(frozen=True, slots=True)
@@ -28,6 +32,22 @@ class Settings:
     session_absolute_hours: int = 12
     sign_in_failures_per_account: str = "5/15 minutes"
     sign_in_failures_per_address: str = "30/15 minutes"
+    # Blank: a folder `traptally-photos` beside a SQLite file, else in the working folder.
+    photo_dir: str = ""
+
+    def photo_folder(self, database_url: str) -> Path:
+        """Where photos of findings are written: `photo_dir`, else beside the SQLite file
+        at `database_url` (the database the program opened), else the working folder.
+
+        >>> Settings().photo_folder("sqlite:////data/plant.db")
+        PosixPath('/data/traptally-photos')
+        """
+        if self.photo_dir:
+            return Path(self.photo_dir)
+        url = make_url(database_url)
+        on_disk = url.get_backend_name() == "sqlite" and url.database not in (None, ":memory:")
+        beside = Path(str(url.database)).parent if on_disk else Path()
+        return beside / PHOTO_FOLDER_NAME
 
     @property
     def session_limits(self) -> SessionLimits:
@@ -68,4 +88,5 @@ class Settings:
             or defaults.sign_in_failures_per_account,
             sign_in_failures_per_address=read("sign_in_failures_per_address")
             or defaults.sign_in_failures_per_address,
+            photo_dir=read("photo_dir") or defaults.photo_dir,
         )

@@ -186,7 +186,8 @@ async function keep(form, body, why) {
   const entry = {
     key: body.get("idempotency_key"),
     action: form.getAttribute("action"),
-    fields: [...body.entries()].filter(([, value]) => typeof value === "string"),
+    // A photo is kept too (IndexedDB holds files); an empty file input is not.
+    fields: [...body.entries()].filter(([, value]) => typeof value === "string" || value.size > 0),
     tag: form.dataset.tag,
     condition: body.get("condition") || "",
     keptAt: Date.now(), // milliseconds: two saves in one second keep their order

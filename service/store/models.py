@@ -227,6 +227,23 @@ class Finding(Base):
     trap: Mapped[Trap] = relationship()
 
 
+class FindingPhoto(Base):
+    """A photo taken at a finding. The file lives in the photo folder (a setting), under a
+    random name; the site is kept here so that only those who may read it are served it."""
+
+    __tablename__ = "finding_photos"
+
+    id: Mapped[int] = mapped_column(primary_key=True)
+    site_id: Mapped[int] = mapped_column(ForeignKey("sites.id"), index=True)
+    finding_id: Mapped[int] = mapped_column(
+        ForeignKey("findings.id", ondelete="CASCADE"), index=True
+    )
+    stored_name: Mapped[str] = mapped_column(String(64), unique=True)
+    content_type: Mapped[str] = mapped_column(String(40))
+    size_bytes: Mapped[int]
+    created_at: Mapped[dt.datetime] = mapped_column(UtcDateTime, default=_now)
+
+
 class Repair(Base):
     """A trap repaired or replaced. The trap's next finding confirms it."""
 

@@ -28,7 +28,17 @@ from service.settings import Settings
 from service.store.audit import Actor
 from service.store.database import Database
 from service.store.errors import NotFoundError
-from service.store.models import Area, Finding, Repair, Role, Site, Survey, Trap, User
+from service.store.models import (
+    Area,
+    Finding,
+    FindingPhoto,
+    Repair,
+    Role,
+    Site,
+    Survey,
+    Trap,
+    User,
+)
 from service.store.records import get, site_id_of
 from service.web.dependencies import Db, record_id
 
@@ -209,6 +219,7 @@ SITE_RECORDS: dict[str, type[Any]] = {
     "survey_id": Survey,
     "finding_id": Finding,
     "repair_id": Repair,
+    "photo_id": FindingPhoto,
 }
 
 

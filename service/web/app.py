@@ -91,6 +91,9 @@ def create_app(database: Database | None = None, settings: Settings | None = Non
     app.state.database = store
     app.state.rollups = RollupCache()
     app.state.settings = settings
+    app.state.photo_folder = settings.photo_folder(
+        store.engine.url.render_as_string(hide_password=False)
+    )
     app.state.sign_in_limits = SignInLimits.of(
         settings.sign_in_failures_per_account, settings.sign_in_failures_per_address
     )

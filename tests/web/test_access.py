@@ -104,6 +104,7 @@ TABLE: dict[tuple[str, str], tuple[str, bool, int]] = {
     ("POST", "/sites/{site_id}/settings"): (M, True, 422),
     ("GET", "/sites/{site_id}/register"): (R, True, 200),
     ("GET", "/traps/{trap_id}"): (R, True, 200),
+    ("GET", "/photos/{photo_id}"): (R, True, 404),
     ("GET", "/traps/{trap_id}/edit"): (M, True, 200),
     ("POST", "/traps/{trap_id}/edit"): (M, True, 303),
     ("POST", "/traps/{trap_id}/retire"): (M, True, 303),
@@ -184,6 +185,7 @@ class World:
 
     def url(self, path: str, ids: dict[str, int]) -> str:
         values = {**ids, "suffix": "csv", "user_id": self.target_user, "tag": "NO-SUCH-TAG"}
+        values.setdefault("photo_id", 999_999)
         query = QUERIES.get(path, "").format(**values)
         return path.replace(":path}", "}").format(**values) + (f"?{query}" if query else "")
 

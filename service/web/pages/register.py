@@ -6,16 +6,17 @@ from typing import Annotated, TypeVar
 from urllib.parse import urlencode
 
 from fastapi import APIRouter, Query, Request
-from fastapi.responses import HTMLResponse
+from fastapi.responses import FileResponse, HTMLResponse, Response
 from sqlalchemy import select
 from sqlalchemy.orm import Session
 
 from service.accounts.roles import Permission
 from service.physics.conditions import TrapCondition
 from service.reports.pricing import SitePricing
-from service.store import audit, register, surveys
+from service.store import audit, photos, register, surveys
+from service.store.errors import NotFoundError
 from service.store.latest import latest_conditions
-from service.store.models import Finding, Repair, Site, Survey, Trap
+from service.store.models import Finding, FindingPhoto, Repair, Site, Survey, Trap
 from service.store.vocabulary import Application, RepairKind, TrapType
 from service.web.access import Reading, Viewer
 from service.web.dependencies import Db, RecordId, record_id
@@ -86,6 +87,20 @@ def register_page(
         )
 
 
+@router.get("/photos/{photo_id}")
+def photo(photo_id: RecordId, db: Db, viewer: Reading, request: Request) -> Response:
+    """A finding's photo, to those who may read its site."""
+    with db.reading() as session:
+        found = viewer.get(session, FindingPhoto, photo_id)
+        path = request.app.state.photo_folder / found.stored_name
+        content_type = found.content_type
+    if not path.is_file():
+        raise NotFoundError("photo file", photo_id)
+    return FileResponse(
+        path, media_type=content_type, headers={"Cache-Control": "private, max-age=86400"}
+    )
+
+
 @router.get("/traps/{trap_id}", response_class=HTMLResponse)
 def trap_page(request: Request, trap_id: RecordId, db: Db, viewer: Reading) -> HTMLResponse:
     with db.reading() as session:
@@ -108,6 +123,9 @@ def trap_page_answer(
         .where(Finding.trap_id == trap.id)
     ).all()
     repairs = session.scalars(select(Repair).where(Repair.trap_id == trap.id)).all()
+    finding_photos = photos.photos_of(
+        session=session, finding_ids=[finding.id for finding, _ in findings]
+    )
     events = sorted(
         [("finding", finding.tested_at.date(), finding, name) for finding, name in findings]
         + [("repair", repair.repaired_on, repair, None) for repair in repairs],
@@ -134,6 +152,7 @@ def trap_page_answer(
         loss=loss,
         surveys=surveys.surveys_of(session=session, site=site),
         entries=audit.trail_of_trap(session, trap.id),
+        photos=finding_photos,
         managing=viewer.may(Permission.MANAGE),
         repair_form=repair_form or Form({"repaired_on": dt.date.today().isoformat()}),
         repair_kinds=list(RepairKind),

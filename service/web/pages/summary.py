@@ -14,7 +14,7 @@ from service.reports.opportunities import flash_recovery_what_if
 from service.reports.pricing import SitePricing
 from service.reports.schemas import ComparisonOut, FlashRecoveryWhatIfOut, SummaryOut
 from service.reports.summary import SiteSummary, site_summary
-from service.store import surveys
+from service.store import photos, surveys
 from service.store.models import Site, Survey
 from service.web.access import Reading
 from service.web.dependencies import MAX_RECORD_ID, Db, RecordId
@@ -146,4 +146,9 @@ def report_page(
             surveys.chosen_survey(session=session, site=site, survey_id=survey_id),
             row_limit=None,
         )
-        return page(request, "report.html", site=site, print_only=True, **context)
+        appendix = (
+            photos.survey_photos(session=session, survey_id=context["survey"].id)
+            if context["survey"] is not None
+            else []
+        )
+        return page(request, "report.html", site=site, print_only=True, photos=appendix, **context)

@@ -23,7 +23,7 @@ from service.physics.pressure import absolute_from_gauge
 from service.physics.units import Dimension
 from service.reports.summary import SummaryRow, summary_rows
 from service.shipped import STATIC
-from service.store import register, surveys
+from service.store import photos, register, surveys
 from service.store.errors import ConflictError, FieldError, NotFoundError
 from service.store.models import Finding, Site, Survey, Trap
 from service.store.records import get
@@ -313,6 +313,18 @@ FORM_NAMES = {
 }
 
 
+async def _photo_sent(request: Request) -> bytes:
+    """The photo the form carries (b"" for none), read no further than the size limit
+    allows, so that an oversized one is refused without being read whole."""
+    upload = (await request.form()).get("photo")
+    if upload is None or isinstance(upload, str):
+        return b""
+    try:
+        return await upload.read(photos.MAX_PHOTO_BYTES + 1)
+    finally:
+        await upload.close()  # its spooled file; the form was read by hand, not by FastAPI
+
+
 @router.post("/surveys/{survey_id}/walk/traps/{trap_id}", response_class=HTMLResponse)
 async def save_finding(
     request: Request, survey_id: RecordId, trap_id: RecordId, db: Db, viewer: Recording
@@ -322,6 +334,7 @@ async def save_finding(
     correction = form.text("correction") == "yes"
     if correction and not viewer.may(Permission.MANAGE):
         raise NotPermitted
+    photo = await _photo_sent(request)
     with db.writing(viewer.actor) as session:
         survey = viewer.get(session, Survey, survey_id)
         trap = _trap_of_survey(session, survey, trap_id)
@@ -330,17 +343,27 @@ async def save_finding(
         finding: Finding | None = None
         if form.ok:
             try:
+                if photo:
+                    photos.check_photo(photo)
                 data = FindingCreate.model_validate(fields)
                 doubts = [] if form.text("confirmed") == "yes" else _doubts(site, trap, data)
                 if doubts:
                     return _finding_page(request, session, survey, trap, form, doubts=doubts)
-                finding, _ = surveys.record_finding(
+                finding, replayed = surveys.record_finding(
                     session=session,
                     survey=survey,
                     data=data,
                     idempotency_key=key,
                     correction=correction,
                 )
+                if photo and not replayed:
+                    session.flush()
+                    photos.store_photo(
+                        session=session,
+                        folder=request.app.state.photo_folder,
+                        finding=finding,
+                        content=photo,
+                    )
             except ConflictError as error:
                 form.errors["round"] = f"Not saved: {error}. What you entered is kept."
             except (ValidationError, FieldError) as error:
@@ -425,7 +448,15 @@ async def add_trap(request: Request, survey_id: RecordId, db: Db, viewer: Record
         fields.setdefault("notes", "Added during the survey walk.")
         trap: Trap | None = None
         after = record_id(form.text("after"))
-        found_after = _trap_of_survey(session, survey, after) if after is not None else None
+        found_after = None
+        if after is not None:
+            try:
+                found_after = _trap_of_survey(session, survey, after)
+            except NotFoundError:
+                form.errors["after"] = (
+                    "The trap where this one was found is not in this site's register: add "
+                    "it from the route instead."
+                )
         if form.ok:
             try:
                 trap = register.create_trap(
