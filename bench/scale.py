@@ -117,7 +117,9 @@ def _build_site(database: Database, name: str, traps: int) -> tuple[float, float
             session=session, data=SiteCreate(name=name, steam_cost_per_tonne=32.0)
         )
         register_seconds, plan = _timed(
-            lambda: imports.plan_register(session=session, site=site, content=content)
+            lambda: imports.plan_register(
+                session=session, site=site, content=content, create_areas=True
+            )
         )
         register_seconds += _timed(
             lambda: imports.apply_register(session=session, site=site, plan=plan)

@@ -27,7 +27,8 @@ def load_demo(*, session: Session, folder: Path = SEED_DATA) -> Site | None:
     site = register.create_site(session=session, data=SiteCreate.model_validate(site_fields))
     content = (folder / "register.csv").read_bytes()
     plan = _applied(
-        imports.plan_register(session=session, site=site, content=content), "register.csv"
+        imports.plan_register(session=session, site=site, content=content, create_areas=True),
+        "register.csv",
     )
     imports.apply_register(session=session, site=site, plan=plan)
     for entry in json.loads((folder / "surveys.json").read_text(encoding="utf-8")):

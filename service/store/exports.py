@@ -16,10 +16,27 @@ from service.store.models import Area, Finding, Repair, Site, Survey, Trap
 from service.store.register import ROUTE_ORDER
 
 
-def _headers(spec: ImportFormat) -> list[str]:
+def _headers(spec: ImportFormat, unit_symbols: frozenset[str] = frozenset()) -> list[str]:
+    """The file's columns; a quantity's in the unit among `unit_symbols` it may be given
+    in (psig, °F), else in the program's."""
     names = [column.name for column in spec.columns]
-    names += [unit_column.field for unit_column, _ in spec.unit_columns]
+    for quantity, _ in spec.unit_columns:
+        chosen = [header for header, symbol in quantity.headers.items() if symbol in unit_symbols]
+        names.append(chosen[0] if chosen else quantity.field)
     return names + list(spec.extra_columns)
+
+
+TEMPLATES = {"register": REGISTER, "findings": FINDINGS, "repairs": REPAIRS}
+
+
+def template_csv(kind: str, unit_symbols: frozenset[str]) -> str:
+    """An empty file of one kind to fill in: its header row, each quantity in the unit
+    of `unit_symbols` a person reads (a US site's psig, °F, in, lb/h).
+
+    >>> template_csv("repairs", frozenset())
+    'tag,repaired_on,kind,cost,notes\\r\\n'
+    """
+    return write_table(_headers(TEMPLATES[kind], unit_symbols), [])
 
 
 # Figures are written to 12 significant digits: far finer than any gauge or scale reads,

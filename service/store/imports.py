@@ -142,6 +142,9 @@ class ImportPlan(Generic[Data]):
     problems: list[Problem] = field(default_factory=list)
     # Written all the same, but worth a look: text a spreadsheet would run as a formula.
     warnings: list[Problem] = field(default_factory=list)
+    # Areas the file names that the site does not have: created only once confirmed.
+    new_areas: dict[str, int] = field(default_factory=dict)  # name -> first row naming it
+    areas_confirmed: bool = False
 
     @property
     def creates(self) -> int:
@@ -154,6 +157,20 @@ class ImportPlan(Generic[Data]):
     @property
     def clean(self) -> bool:
         return not self.problems
+
+    @property
+    def ready(self) -> bool:
+        """Clean, and any new area confirmed: what may be written."""
+        return self.clean and (self.areas_confirmed or not self.new_areas)
+
+    def unconfirmed_areas(self) -> list[Problem]:
+        """A problem for each new area not confirmed, at the first row naming it."""
+        if self.areas_confirmed:
+            return []
+        return [
+            Problem(row, "area", f"'{name}' is not an area of this site yet: confirm to create it")
+            for name, row in self.new_areas.items()
+        ]
 
 
 FORMULA_WARNING = (
@@ -311,8 +328,11 @@ def _plan(
 # The register -------------------------------------------------------------------------
 
 
-def plan_register(*, session: Session, site: Site, content: bytes) -> ImportPlan[TrapCreate]:
-    """Check a register file against the site: every problem, nothing written."""
+def plan_register(
+    *, session: Session, site: Site, content: bytes, create_areas: bool = False
+) -> ImportPlan[TrapCreate]:
+    """Check a register file against the site: every problem, and the areas it would
+    create (only with `create_areas`, once a person has seen them); nothing written."""
     # Tags are one tag whatever their case ("HP-01", "hp-01"), as the register holds them.
     stored = {
         trap.tag.lower(): trap
@@ -343,24 +363,34 @@ def plan_register(*, session: Session, site: Site, content: bytes) -> ImportPlan
             fields.pop("area_id", None)
         return (known.id, known.id) if known is not None else (None, None)
 
-    return _plan(content, REGISTER, "register", prepare)
+    plan = _plan(content, REGISTER, "register", prepare)
+    known = {area.name.lower() for area in register.areas_of(session=session, site=site)}
+    for row in plan.rows:
+        name = row.cells.get("area", "")
+        if name and name.lower() not in known:
+            plan.new_areas.setdefault(name, row.row)
+            known.add(name.lower())
+    plan.areas_confirmed = create_areas
+    return plan
 
 
 def _area_ids(session: Session, site: Site, names: set[str]) -> dict[str, int]:
-    areas = {area.name: area for area in register.areas_of(session=session, site=site)}
+    """Each name's area id, whatever its case ("Dryers", "dryers"); new names created."""
+    areas = {area.name.lower(): area for area in register.areas_of(session=session, site=site)}
     order = max((area.route_order for area in areas.values()), default=0)
-    for name in sorted(names - areas.keys()):
-        order += 1
-        areas[name] = Area(site_id=site.id, name=name, route_order=order)
-        session.add(areas[name])
+    for name in sorted(names, key=str.lower):
+        if name.lower() not in areas:
+            order += 1
+            areas[name.lower()] = Area(site_id=site.id, name=name, route_order=order)
+            session.add(areas[name.lower()])
     session.flush()
-    return {name: area.id for name, area in areas.items()}
+    return {name: areas[name.lower()].id for name in names}
 
 
 def apply_register(*, session: Session, site: Site, plan: ImportPlan[TrapCreate]) -> None:
-    """Write a clean register plan: new traps created, known tags updated, areas made."""
-    if not plan.clean:
-        raise ValueError("a plan with problems cannot be applied")
+    """Write a ready register plan: new traps created, known tags updated, areas made."""
+    if not plan.ready:
+        raise ValueError("a plan with problems or unconfirmed areas cannot be applied")
     names = {row.cells.get("area", "") for row in plan.rows} - {""}
     area_ids = _area_ids(session, site, names)
     stored = {

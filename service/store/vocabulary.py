@@ -6,6 +6,8 @@ Trap conditions and condensate destinations belong to the calculation core
 
 from enum import StrEnum
 
+from service.store.csv_format import UNITS_BY_SUFFIX
+
 
 class TrapType(StrEnum):
     THERMODYNAMIC = "thermodynamic"
@@ -129,9 +131,14 @@ LABELS: dict[str, str] = {
 
 
 def label(word: str) -> str:
-    """The words a person reads for a stored value.
+    """The words a person reads for a stored value or a field's name.
 
-    >>> label("blow_through")
-    'Blowing through'
+    >>> label("blow_through"), label("inlet_pressure_kpa_g")
+    ('Blowing through', 'Inlet pressure (kPa(g))')
     """
-    return LABELS.get(word, word.replace("_", " ").capitalize())
+    if word in LABELS:
+        return LABELS[word]
+    for suffix, units in UNITS_BY_SUFFIX.items():  # a field's name ends in its unit
+        if word.endswith(f"_{suffix}"):
+            return f"{label(word.removesuffix(f'_{suffix}'))} ({units[suffix]})"
+    return word.replace("_", " ").capitalize()

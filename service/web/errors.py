@@ -21,6 +21,7 @@ from pydantic import ValidationError
 from service.logs import LOGGER
 from service.store.errors import FieldError
 from service.store.surveys import IDEMPOTENCY_HEADER
+from service.store.vocabulary import label
 from service.web.request_log import REQUEST_ID_HEADER, request_id_of
 
 _PYDANTIC_PREFIX = "Value error, "
@@ -74,7 +75,7 @@ def _unprocessable(request: Request, detail: list[dict[str, Any]]) -> Response:
     """A 422: JSON for the API; for a page, a page that says which field and why (a form
     route keeps what was typed itself; this is the answer of last resort)."""
     if _for_a_person(request):
-        lines = "; ".join(f"{entry['loc'][-1]}: {entry['msg']}" for entry in detail)
+        lines = "; ".join(f"{label(str(entry['loc'][-1]))}: {entry['msg']}" for entry in detail)
         return _error_page(request, 422, "That was not saved", lines)
     return JSONResponse(status_code=422, content={"detail": detail})
 

@@ -2,6 +2,7 @@
 re-imports that update, and exports that import back to the same data."""
 
 from typing import Any
+from urllib.parse import parse_qsl
 
 import pytest
 from fastapi.testclient import TestClient
@@ -20,9 +21,10 @@ REGISTER = (
 
 
 def _import(api: TestClient, path: str, content: str | bytes, commit: bool) -> dict[str, Any]:
+    path, _, query = path.partition("?")  # the client's params replace a path's own query
     answer = api.post(
         path,
-        params={"commit": str(commit).lower()},
+        params={"commit": str(commit).lower(), **dict(parse_qsl(query))},
         content=content.encode() if isinstance(content, str) else content,
         headers={"content-type": "text/csv"},
     )
@@ -33,7 +35,8 @@ def _import(api: TestClient, path: str, content: str | bytes, commit: bool) -> d
 
 
 def _register_path(site: dict[str, Any]) -> str:
-    return f"/api/v1/sites/{site['id']}/imports/register"
+    """The register import, creating the areas a file names (tests of that ask are below)."""
+    return f"/api/v1/sites/{site['id']}/imports/register?create_areas=true"
 
 
 def _traps(api: TestClient, site: dict[str, Any]) -> list[dict[str, Any]]:
@@ -272,3 +275,59 @@ def test_exports_write_figures_without_float_noise(api: TestClient) -> None:
     # 1.1 bar is 110 kPa; as floats it multiplies to 110.00000000000001.
     assert ",110.0," in exported
     assert "110.00000000000001" not in exported
+
+
+def test_a_register_naming_new_areas_asks_before_creating_them(api: TestClient) -> None:
+    site = make_site(api)
+    api.post(f"/api/v1/sites/{site['id']}/areas", json={"name": "Boiler house"})
+    path = f"/api/v1/sites/{site['id']}/imports/register"
+    content = REGISTER.replace("HP-02,Boiler house", "HP-02,boiler HOUSE")  # a known area
+    preview = _import(api, path, content, commit=False)
+    assert preview["problems"] == []
+    assert preview["new_areas"] == ["Dryers"]
+    refused = _import(api, path, content, commit=True)
+    assert refused["status"] == 422
+    assert [(p["row"], p["column"]) for p in refused["problems"]] == [(4, "area")]
+    assert "'Dryers' is not an area of this site yet" in refused["problems"][0]["message"]
+    assert _traps(api, site) == []
+    confirmed = _import(api, path + "?create_areas=true", content, commit=True)
+    assert confirmed["committed"] is True
+    areas = api.get(f"/api/v1/sites/{site['id']}/areas").json()["items"]
+    assert sorted(area["name"] for area in areas) == ["Boiler house", "Dryers"]
+
+
+@pytest.mark.parametrize(
+    ("unit_system", "expected"),
+    [
+        (
+            "si",
+            "tag,location,route_position,application,trap_type,connection_size,"
+            "condensate_destination,hours_per_year,in_service,installed_on,notes,"
+            "orifice_diameter_mm,inlet_pressure_kpa_g,steam_temperature_c,"
+            "return_pressure_kpa_g,condensate_load_kg_h,area",
+        ),
+        (
+            "us",
+            "tag,location,route_position,application,trap_type,connection_size,"
+            "condensate_destination,hours_per_year,in_service,installed_on,notes,"
+            "orifice_diameter_in,inlet_pressure_psig,steam_temperature_f,"
+            "return_pressure_psig,condensate_load_lb_h,area",
+        ),
+    ],
+)
+def test_a_template_names_the_columns_in_the_sites_units_and_imports_once_filled(
+    api: TestClient, unit_system: str, expected: str
+) -> None:
+    site = make_site(api, unit_system=unit_system)
+    template = api.get(f"/sites/{site['id']}/import/template/register.csv")
+    assert template.headers["content-disposition"] == 'attachment; filename="register-template.csv"'
+    assert template.text.splitlines() == [expected]
+    row = dict.fromkeys(expected.split(","), "")
+    row |= {"tag": "T-1", "application": "drip", "trap_type": "thermodynamic"}
+    unit = "in" if unit_system == "us" else "mm"
+    row |= {f"orifice_diameter_{unit}": "0.125" if unit == "in" else "3.2"}
+    pressure = "psig" if unit_system == "us" else "kpa_g"
+    row |= {f"inlet_pressure_{pressure}": "150", f"return_pressure_{pressure}": "0"}
+    filled = template.text + ",".join(row.values()) + "\r\n"
+    answer = _import(api, _register_path(site), filled, commit=True)
+    assert answer["committed"] is True, answer["problems"]

@@ -121,6 +121,7 @@ TABLE: dict[tuple[str, str], tuple[str, bool, int]] = {
     ("POST", "/surveys/{survey_id}/walk/new-trap"): (C, True, 422),
     ("GET", "/sites/{site_id}/import"): (M, True, 200),
     ("POST", "/sites/{site_id}/import"): (M, True, 422),
+    ("GET", "/sites/{site_id}/import/template/{kind}.csv"): (M, True, 200),
     ("GET", "/calculator"): (R, False, 200),
 }
 GRANTS = {
@@ -186,6 +187,7 @@ class World:
     def url(self, path: str, ids: dict[str, int]) -> str:
         values = {**ids, "suffix": "csv", "user_id": self.target_user, "tag": "NO-SUCH-TAG"}
         values.setdefault("photo_id", 999_999)
+        values.setdefault("kind", "register")
         query = QUERIES.get(path, "").format(**values)
         return path.replace(":path}", "}").format(**values) + (f"?{query}" if query else "")
 

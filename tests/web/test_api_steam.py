@@ -182,4 +182,5 @@ def test_a_field_error_no_form_caught_answers_a_page_to_a_person_and_json_to_the
     page = client.get("/refused")
     assert page.status_code == 422
     assert page.headers["content-type"].startswith("text/html")
-    assert "inlet_pressure_kpa_g: 3000 kPa(g) is off the saturation line" in page.text
+    # The field in words with its unit, not the program name inlet_pressure_kpa_g.
+    assert "Inlet pressure (kPa(g)): 3000 kPa(g) is off the saturation line" in page.text

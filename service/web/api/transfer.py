@@ -52,6 +52,10 @@ class ImportOut(BaseModel):
     warnings: list[ProblemOut] = Field(
         description="Written all the same: text a spreadsheet would run as a formula"
     )
+    new_areas: list[str] = Field(
+        description="Areas the file names that the site does not have; a commit creates "
+        "them only with create_areas=true"
+    )
     committed: bool
 
 
@@ -82,9 +86,11 @@ def _run_import(
 ) -> JSONResponse:
     with database.writing(actor) as session:
         found = plan(session)
-        committed = commit and found.clean
+        committed = commit and found.ready
         if committed:
             apply(session, found)
+        elif commit:
+            found.problems += found.unconfirmed_areas()
     answer = ImportOut(
         kind=found.kind,
         columns=found.columns,
@@ -93,6 +99,7 @@ def _run_import(
         updates=found.updates,
         problems=[ProblemOut.model_validate(p, from_attributes=True) for p in found.problems],
         warnings=[ProblemOut.model_validate(p, from_attributes=True) for p in found.warnings],
+        new_areas=list(found.new_areas),
         committed=committed,
     )
     return JSONResponse(
@@ -148,11 +155,21 @@ RESPONSES: dict[int | str, dict[str, Any]] = {
     response_model=None,
 )
 async def import_register(
-    site_id: RecordId, request: Request, db: Db, viewer: Managing, commit: Commit = False
+    site_id: RecordId,
+    request: Request,
+    db: Db,
+    viewer: Managing,
+    commit: Commit = False,
+    create_areas: Annotated[
+        bool, Query(description="Create the areas the file names that the site lacks")
+    ] = False,
 ) -> JSONResponse:
     def plan(session: Session, content: bytes) -> imports.ImportPlan[Any]:
         return imports.plan_register(
-            session=session, site=viewer.get(session, Site, site_id), content=content
+            session=session,
+            site=viewer.get(session, Site, site_id),
+            content=content,
+            create_areas=create_areas,
         )
 
     def apply(session: Session, found: imports.ImportPlan[Any]) -> None:

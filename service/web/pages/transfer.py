@@ -10,20 +10,27 @@ from fastapi.responses import HTMLResponse, RedirectResponse, Response
 from sqlalchemy.orm import Session
 from starlette.datastructures import UploadFile
 
-from service.store import imports, surveys
+from service.physics.units import Dimension
+from service.store import exports, imports, surveys
 from service.store.csv_format import MAX_CSV_BYTES, UnreadableFile
+from service.store.errors import NotFoundError
 from service.store.models import Site, Survey
 from service.store.records import get
 from service.web.access import Managing
 from service.web.dependencies import Db, RecordId, record_id
-from service.web.pages.templating import page
+from service.web.pages.templating import display_for, page
 
 router = APIRouter(include_in_schema=False)
 KINDS = {"register": "Trap register", "findings": "Findings of a survey", "repairs": "Repairs"}
 
 
 def _plan(
-    session: Session, site: Site, kind: str, survey_id: int | None, content: bytes
+    session: Session,
+    site: Site,
+    kind: str,
+    survey_id: int | None,
+    content: bytes,
+    create_areas: bool,
 ) -> imports.ImportPlan[Any]:
     if kind == "findings":
         survey = get(session, Survey, survey_id or 0)
@@ -32,7 +39,9 @@ def _plan(
         return imports.plan_findings(session=session, survey=survey, content=content)
     if kind == "repairs":
         return imports.plan_repairs(session=session, site=site, content=content)
-    return imports.plan_register(session=session, site=site, content=content)
+    return imports.plan_register(
+        session=session, site=site, content=content, create_areas=create_areas
+    )
 
 
 def _apply(session: Session, site: Site, kind: str, survey_id: int | None, plan: Any) -> None:
@@ -57,6 +66,21 @@ def _import_page(
         surveys=surveys.surveys_of(session=session, site=site),
         status_code=status_code,
         **context,
+    )
+
+
+@router.get("/sites/{site_id}/import/template/{kind}.csv")
+def template(site_id: RecordId, kind: str, db: Db, viewer: Managing) -> Response:
+    """An empty file of one kind, its columns in the site's units, to fill in and import."""
+    if kind not in KINDS:
+        raise NotFoundError("kind of file", kind)
+    with db.reading() as session:
+        show = display_for(viewer.get(session, Site, site_id))
+    symbols = frozenset(show.unit(dimension) for dimension in Dimension)
+    return Response(
+        exports.template_csv(kind, symbols),
+        media_type="text/csv; charset=utf-8",
+        headers={"Content-Disposition": f'attachment; filename="{kind}-template.csv"'},
     )
 
 
@@ -108,7 +132,9 @@ async def preview_or_confirm(
                 refusal=refusal or "choose a CSV file to import",
             )
         try:
-            plan = _plan(session, site, kind, survey_id, content)
+            plan = _plan(
+                session, site, kind, survey_id, content, fields.get("create_areas") == "yes"
+            )
         except UnreadableFile as error:
             return _import_page(
                 request,
@@ -119,7 +145,7 @@ async def preview_or_confirm(
                 survey_id=survey_id,
                 refusal=str(error),
             )
-        if confirm and plan.clean:
+        if confirm and plan.ready:
             _apply(session, site, kind, survey_id, plan)
             done = f"{KINDS[kind]}: {plan.creates} created, {plan.updates} updated"
             return RedirectResponse(f"/sites/{site_id}/import?done={done}", status_code=303)
