@@ -14,6 +14,7 @@ from service.physics.conditions import FindingCategory, TrapCondition
 from service.physics.spread import Spread
 from service.physics.trap_loss import CondensateDestination
 from service.reports.compare import Change, SurveyComparison, TrapChange
+from service.reports.reliability import GroupReliability, NextRound, SiteReliability
 from service.reports.summary import PricedTrap, SiteSummary, Tally
 from service.store.models import Survey
 from service.store.vocabulary import (
@@ -442,4 +443,159 @@ class ComparisonOut(BaseModel):
             annual_installation_cost_after=comparison.installation_cost_after,
             **{change.value: listed(change) for change in Change},
             change_counts={change: len(comparison.changes.get(change, [])) for change in Change},
+        )
+
+
+class CurvePointOut(BaseModel):
+    model_config = ConfigDict(from_attributes=True)
+
+    years: float
+    surviving: float = Field(description="Share of traps still working")
+    low: float | None = Field(description="95 % band, where the fit gives one")
+    high: float | None
+
+
+class CostPointOut(BaseModel):
+    interval_years: float
+    yearly_cost: float = Field(description="A trap's testing cost plus undetected losses")
+
+
+class ReliabilityGroupOut(BaseModel):
+    """One group of traps: its lives, failure rate with 95 % interval, Weibull fit,
+    survival curves and test-interval advice."""
+
+    breakdown: str = Field(description="trap_type, application or pressure_class")
+    key: str
+    label: str
+    lives: int
+    failures: int
+    exposure_years: float
+    failures_per_year: float = Field(description="Constant-rate (exponential) fit")
+    failures_per_year_low: float
+    failures_per_year_high: float
+    weibull_shape: float | None = Field(description="Above 1: failures grow with age")
+    weibull_scale_years: float | None
+    mean_failure_loss: float | None = Field(
+        description="A failed trap's yearly failure loss in the latest round, in this group "
+        "(the site's mean where it had none)"
+    )
+    best_test_interval_years: float | None = Field(
+        description="sqrt(2 C / (rate x loss)): the interval of least yearly cost"
+    )
+    doe_interval: str | None = Field(description="US DOE's interval for the pressure class")
+    turnbull: list[CurvePointOut]
+    weibull_curve: list[CurvePointOut]
+    cost_curve: list[CostPointOut]
+
+    @classmethod
+    def of(cls, group: GroupReliability) -> "ReliabilityGroupOut":
+        found = group.estimate
+        return cls(
+            breakdown=group.breakdown,
+            key=group.key,
+            label=group.label,
+            lives=found.lives,
+            failures=found.failures,
+            exposure_years=found.exposure_years,
+            **spread_fields(
+                "failures_per_year", Spread(found.rate.per_year, found.rate.low, found.rate.high)
+            ),
+            weibull_shape=found.weibull_shape,
+            weibull_scale_years=found.weibull_scale_years,
+            mean_failure_loss=group.mean_failure_loss,
+            best_test_interval_years=group.best_interval_years,
+            doe_interval=group.doe_interval,
+            turnbull=[CurvePointOut.model_validate(point) for point in found.turnbull],
+            weibull_curve=[CurvePointOut.model_validate(point) for point in found.weibull_curve],
+            cost_curve=[
+                CostPointOut(interval_years=years, yearly_cost=cost)
+                for years, cost in group.cost_curve
+            ],
+        )
+
+
+class AreaExpectationOut(BaseModel):
+    area: str
+    expected_failed: float
+    expected_failure_loss: float
+    expected_failure_loss_low: float
+    expected_failure_loss_high: float
+
+
+class ExpectedTrapOut(BaseModel):
+    model_config = ConfigDict(from_attributes=True)
+
+    trap_id: int
+    tag: str
+    area_name: str
+    chance: float = Field(description="Of being found failed on the day")
+    expected_loss: float
+
+
+class NextRoundOut(BaseModel):
+    """What a round on `on` can expect: failed traps and their yearly failure loss by
+    area (with the range of the failure rate), and a route by expected loss."""
+
+    on: dt.date
+    expected_failed: float
+    expected_failure_loss: float
+    expected_failure_loss_low: float
+    expected_failure_loss_high: float
+    by_area: list[AreaExpectationOut]
+    route: list[ExpectedTrapOut] = Field(description="Largest expected loss first")
+
+    @classmethod
+    def of(cls, next_round: NextRound, route_length: int) -> "NextRoundOut":
+        areas = [
+            AreaExpectationOut(
+                area=name,
+                expected_failed=failed,
+                expected_failure_loss=loss,
+                expected_failure_loss_low=low,
+                expected_failure_loss_high=high,
+            )
+            for name, (failed, loss, low, high) in next_round.by_area().items()
+        ]
+        return cls(
+            on=next_round.on,
+            expected_failed=sum(area.expected_failed for area in areas),
+            expected_failure_loss=sum(area.expected_failure_loss for area in areas),
+            expected_failure_loss_low=sum(area.expected_failure_loss_low for area in areas),
+            expected_failure_loss_high=sum(area.expected_failure_loss_high for area in areas),
+            by_area=areas,
+            route=[
+                ExpectedTrapOut.model_validate(trap) for trap in next_round.traps[:route_length]
+            ],
+        )
+
+
+class ReliabilityOut(BaseModel):
+    """How long the site's traps last, how often to test them, and what the next round
+    can expect, from every round and repair the site holds."""
+
+    site_id: int
+    currency: str
+    test_cost_per_trap: float
+    traps: int
+    lives: int = Field(description="Spans of working life, each ended by a failure or not yet")
+    failures: int
+    failures_per_year: float
+    failures_per_year_low: float
+    failures_per_year_high: float
+    groups: list[ReliabilityGroupOut]
+    next_round: NextRoundOut
+
+    @classmethod
+    def of(cls, found: SiteReliability, route_length: int = 30) -> "ReliabilityOut":
+        rate = found.overall.rate
+        return cls(
+            site_id=found.site.id,
+            currency=found.site.currency,
+            test_cost_per_trap=found.site.test_cost_per_trap,
+            traps=found.traps,
+            lives=found.lives,
+            failures=found.failures,
+            **spread_fields("failures_per_year", Spread(rate.per_year, rate.low, rate.high)),
+            groups=[ReliabilityGroupOut.of(group) for group in found.groups],
+            next_round=NextRoundOut.of(found.next_round, route_length),
         )

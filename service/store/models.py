@@ -116,6 +116,7 @@ class Site(Base):
     )
     net_to_gross_ratio: Mapped[float] = mapped_column(server_default="0.9")
     sewer_cost_per_tonne: Mapped[float] = mapped_column(server_default="0")
+    test_cost_per_trap: Mapped[float] = mapped_column(server_default="10")
     drain_temperature_limit_c: Mapped[float | None]
     closed_return_pricing: Mapped[ClosedReturnPricing] = mapped_column(
         _words(ClosedReturnPricing), server_default="heat_not_recovered"

@@ -232,6 +232,11 @@ def _default_repair_costs() -> dict[TrapType, RepairCostIn]:
     }
 
 
+# Testing one trap: a technician tests some 10 to 15 traps an hour with walking between
+# them; at 100 to 150 an hour with overheads, about 10 a trap (common practice, an estimate).
+DEFAULT_TEST_COST_PER_TRAP = 10.0
+
+
 class SiteCreate(StrictInput):
     """A site and every figure its losses are priced with."""
 
@@ -252,6 +257,11 @@ class SiteCreate(StrictInput):
     co2_factor_heating_value: HeatingValue = HeatingValue.LHV
     net_to_gross_ratio: NetToGrossRatio = DEFAULT_NET_TO_GROSS_RATIO
     sewer_cost_per_tonne: Money = 0.0
+    test_cost_per_trap: Money = Field(
+        default=DEFAULT_TEST_COST_PER_TRAP,
+        description="What testing one trap costs (labour and its overheads), for the "
+        "test-interval advice",
+    )
     drain_temperature_limit_c: DrainTemperatureLimit | None = None
     closed_return_pricing: ClosedReturnPricing = ClosedReturnPricing.HEAT_NOT_RECOVERED
     hours_per_year: HoursPerYear = DEFAULT_HOURS_PER_YEAR

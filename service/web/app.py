@@ -22,6 +22,7 @@ from service.web.api import (
     calc,
     findings,
     health,
+    reliability,
     repairs,
     session,
     sites,
@@ -49,6 +50,7 @@ API_ROUTERS = (
     surveys.router,
     findings.router,
     repairs.router,
+    reliability.router,
     transfer.router,
 )
 

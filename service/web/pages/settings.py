@@ -61,6 +61,13 @@ SETTINGS_FIELDS: list[tuple[str, Dimension | None, str, str]] = [
         "Sewer or trade-effluent charge per tonne run to drain, on either basis. Default 0.",
     ),
     (
+        "test_cost_per_trap",
+        None,
+        "Cost of testing one trap",
+        "Labour and overheads of one trap's test, for the test-interval advice. Default 10 "
+        "(common practice: 10 to 15 traps an hour).",
+    ),
+    (
         "drain_temperature_limit_c",
         Dimension.TEMPERATURE,
         "Hottest water the sewer may take",
