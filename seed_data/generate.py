@@ -1,17 +1,24 @@
 """Writes the demo plant's files. Invented data, for the demo only.
 
 Wrenfield Board Mill is a paperboard mill of our own invention: high-, medium- and
-low-pressure steam (1000, 400 and 100 kPa(g)), four areas, about 200 traps, and two
-survey rounds a year apart with repairs between them. Run from the project root:
+low-pressure steam (1000, 400 and 100 kPa(g)), four areas, about 200 traps, and five
+yearly survey rounds: 2022 to 2024 surveyed with no repairs made, then the 2025 round,
+a repair programme, and the 2026 round. Run from the project root:
 
     .venv/bin/python seed_data/generate.py
 
-It rewrites register.csv, findings-2025.csv, findings-2026.csv and repairs.csv beside
+It rewrites register.csv, findings-2022.csv to findings-2026.csv and repairs.csv beside
 this file; site.json and surveys.json are written by hand.
+
+The earlier rounds are drawn last, from a generator of their own, so the 2025 and 2026
+files stay as they were: a trap failed in 2025 failed at a time drawn between its
+installation and that round at its type's and application's failure rate (invented
+rates, below), and was found failed in every earlier round after that time.
 """
 
 import csv
 import datetime as dt
+import math
 import random
 from pathlib import Path
 
@@ -198,6 +205,55 @@ def _write(name: str, rows: list[dict[str, object]]) -> None:
         writer.writerows(rows)
 
 
+# Invented yearly failure rates by trap type, scaled by application: for the demo only.
+HISTORY_RATES = {
+    "thermodynamic": 0.12,
+    "inverted_bucket": 0.06,
+    "float_thermostatic": 0.05,
+    "thermostatic_balanced_pressure": 0.15,
+    "thermostatic_bimetallic": 0.10,
+    "thermostatic_liquid_expansion": 0.10,
+    "fixed_orifice": 0.02,
+}
+HISTORY_APPLICATION = {"tracer": 1.3, "drip": 1.0, "process": 0.9, "space_heating": 1.1}
+HISTORY_ROUNDS = [dt.date(2022, 3, 7), dt.date(2023, 3, 6), dt.date(2024, 3, 4)]
+HISTORY = random.Random(20220307)
+
+
+def _failed_on(trap: dict[str, object], before: dt.date) -> dt.date:
+    """When a trap found failed on `before` failed: drawn from its rate, truncated to
+    the span between its installation and that day (inverse of the truncated CDF)."""
+    installed = dt.date.fromisoformat(str(trap["installed_on"]))
+    rate = HISTORY_RATES[str(trap["trap_type"])] * HISTORY_APPLICATION[str(trap["application"])]
+    span = (before - installed).days / 365.25
+    share = HISTORY.random() * (1 - math.exp(-rate * span))
+    years = -math.log(1 - share) / rate
+    return installed + dt.timedelta(days=int(years * 365.25))
+
+
+def _history(traps: list[dict[str, object]], first: list[object]) -> list[list[dict[str, object]]]:
+    """The 2022 to 2024 rounds before the 2025 conditions `first`."""
+    failed_on = {
+        str(trap["tag"]): _failed_on(trap, dt.date(2025, 3, 3))
+        for trap, condition in zip(traps, first, strict=True)
+        if condition in FAILED
+    }
+    rounds = []
+    for start in HISTORY_ROUNDS:
+        findings = []
+        for index, (trap, condition) in enumerate(zip(traps, first, strict=True)):
+            tag = str(trap["tag"])
+            if tag in failed_on:
+                found = str(condition) if failed_on[tag] <= start else "working"
+            elif condition == "not_accessible" and HISTORY.random() < 0.5:
+                found = "not_accessible"
+            else:
+                found = "working"
+            findings.append(_finding(trap, found, _moment(start, index)))
+        rounds.append(findings)
+    return rounds
+
+
 def main() -> None:
     traps = _register()
     first = [_pick(YEAR_ONE) for _ in traps]
@@ -234,6 +290,8 @@ def main() -> None:
     _write("findings-2025.csv", findings_one)
     _write("findings-2026.csv", findings_two)
     _write("repairs.csv", repairs)
+    for start, findings in zip(HISTORY_ROUNDS, _history(traps, first), strict=True):
+        _write(f"findings-{start.year}.csv", findings)
 
 
 if __name__ == "__main__":
