@@ -16,6 +16,7 @@ from service.physics.trap_loss import CondensateDestination
 from service.reports.compare import Change, SurveyComparison, TrapChange
 from service.reports.reliability import GroupReliability, NextRound, SiteReliability
 from service.reports.summary import PricedTrap, SiteSummary, Tally
+from service.reports.trends import RoundTrend
 from service.store.models import Survey
 from service.store.vocabulary import (
     Application,
@@ -598,4 +599,41 @@ class ReliabilityOut(BaseModel):
             **spread_fields("failures_per_year", Spread(rate.per_year, rate.low, rate.high)),
             groups=[ReliabilityGroupOut.of(group) for group in found.groups],
             next_round=NextRoundOut.of(found.next_round, route_length),
+        )
+
+
+class RoundTrendOut(BaseModel):
+    """One round in the site's history: its failure figures, its installation losses
+    apart, and the repairs made after it (before the next round)."""
+
+    survey: SurveyRef
+    label: str = Field(description="The round's name, for charts")
+    traps_recorded: int
+    traps_tested: int
+    failed_count: int
+    failure_rate: float | None
+    annual_cost: float | None = Field(description="Failure losses a year")
+    annual_cost_low: float | None
+    annual_cost_high: float | None
+    annual_steam_loss_t: float
+    annual_installation_cost: float | None = Field(description="Apart: not removed by repairs")
+    repairs_after: int
+
+    @classmethod
+    def of(cls, trend: RoundTrend) -> "RoundTrendOut":
+        found = SummaryOut.of(trend.summary)
+        assert found.survey is not None
+        return cls(
+            survey=found.survey,
+            label=found.survey.name,
+            traps_recorded=found.traps_recorded,
+            traps_tested=found.traps_tested,
+            failed_count=found.failed_count,
+            failure_rate=found.failure_rate,
+            annual_cost=found.annual_cost,
+            annual_cost_low=found.annual_cost_low,
+            annual_cost_high=found.annual_cost_high,
+            annual_steam_loss_t=found.annual_steam_loss_t,
+            annual_installation_cost=found.totals.annual_installation_cost,
+            repairs_after=trend.repairs_after,
         )

@@ -8,6 +8,7 @@ from sqlalchemy.orm import Session
 
 from service.reports.pricing import SitePricing
 from service.reports.reliability import SiteReliability, next_round_default, site_reliability
+from service.reports.trends import RoundTrend, site_trends
 from service.store import surveys
 from service.store.models import Site
 
@@ -32,3 +33,15 @@ def reliability_for(
     )
     on = next_round_on or next_round_default(latest, dt.date.today())
     return site_reliability(session=session, site=site, latest=latest, next_round_on=on)
+
+
+def trends_for(request: Request, session: Session, site: Site) -> list[RoundTrend]:
+    """Every round of the site, oldest first, each summary from the app's roll-up cache."""
+    pricing = SitePricing.of(site)
+    return site_trends(
+        session=session,
+        site=site,
+        summary_of=lambda survey: request.app.state.rollups.summary(
+            session=session, site=site, survey=survey, pricing=pricing
+        ),
+    )

@@ -49,6 +49,7 @@ TABLE: dict[tuple[str, str], tuple[str, bool, int]] = {
     ("DELETE", "/api/v1/sites/{site_id}"): (A, True, 409),
     ("GET", "/api/v1/sites/{site_id}/summary"): (R, True, 200),
     ("GET", "/api/v1/sites/{site_id}/reliability"): (R, True, 200),
+    ("GET", "/api/v1/sites/{site_id}/trends"): (R, True, 200),
     ("GET", "/api/v1/sites/{site_id}/exports/reliability.csv"): (R, True, 200),
     ("GET", "/api/v1/sites/{site_id}/compare"): (R, True, 200),
     ("GET", "/api/v1/sites/{site_id}/flash-recovery"): (R, True, 422),

@@ -1,15 +1,15 @@
-"""Fleet reliability: failure rates and survival by group, test-interval advice, and what
-the next round can expect."""
+"""Fleet reliability: failure rates and survival by group, test-interval advice, what
+the next round can expect, and every round's figures side by side."""
 
 from fastapi import APIRouter, Request
 from fastapi.responses import Response
 
-from service.reports.schemas import ReliabilityOut
+from service.reports.schemas import ReliabilityOut, RoundTrendOut
 from service.store.csv_format import write_table
 from service.store.models import Site
 from service.web.access import Reading
 from service.web.dependencies import Db, RecordId
-from service.web.rollups import NextRoundOn, reliability_for
+from service.web.rollups import NextRoundOn, reliability_for, trends_for
 
 router = APIRouter(tags=["reliability"])
 
@@ -57,3 +57,11 @@ def reliability_csv(site_id: RecordId, request: Request, db: Db, viewer: Reading
         media_type="text/csv; charset=utf-8",
         headers={"Content-Disposition": 'attachment; filename="reliability.csv"'},
     )
+
+
+@router.get("/sites/{site_id}/trends", summary="Every round's failure and installation figures")
+def trends(site_id: RecordId, request: Request, db: Db, viewer: Reading) -> list[RoundTrendOut]:
+    """Oldest first; any two rounds compare at /sites/{id}/compare."""
+    with db.reading() as session:
+        site = viewer.get(session, Site, site_id)
+        return [RoundTrendOut.of(trend) for trend in trends_for(request, session, site)]

@@ -70,9 +70,8 @@ def _site_home(
     form: Form | None = None,
     status_code: int = 200,
 ) -> HTMLResponse:
-    context = summary_context(
-        request, session, site, surveys.latest_survey(session=session, site=site)
-    )
+    latest = surveys.latest_survey(session=session, site=site)
+    context = summary_context(request, session, site, latest, with_trends=True)
     return page(
         request,
         "site_home.html",

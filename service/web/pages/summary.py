@@ -12,7 +12,7 @@ from service.physics.units import Dimension
 from service.reports.compare import compare_surveys
 from service.reports.opportunities import flash_recovery_what_if
 from service.reports.pricing import SitePricing
-from service.reports.schemas import ComparisonOut, FlashRecoveryWhatIfOut, SummaryOut
+from service.reports.schemas import ComparisonOut, FlashRecoveryWhatIfOut, RoundTrendOut, SummaryOut
 from service.reports.summary import SiteSummary, site_summary
 from service.store import photos, surveys
 from service.store.models import Site, Survey
@@ -21,6 +21,7 @@ from service.web.dependencies import MAX_RECORD_ID, Db, RecordId
 from service.web.display import Display
 from service.web.forms import Form
 from service.web.pages.templating import display_for, page
+from service.web.rollups import trends_for
 
 router = APIRouter(include_in_schema=False)
 
@@ -47,17 +48,20 @@ def summary_context(
     survey: Survey | None,
     row_limit: int | None = SCREEN_ROWS,
     what_if: Form | None = None,
+    compared_with: Survey | None = None,
+    with_trends: bool = False,
 ) -> dict[str, Any]:
     """Everything the summary, the report and the site home show: one context. The
-    survey before, for the comparison, comes from the app's cache of roll-ups. With
-    `what_if` (the flash-recovery form), its answer or its errors."""
+    round compared with (`compared_with`, else the survey before) comes from the app's
+    cache of roll-ups. With `what_if` (the flash-recovery form), its answer or its errors;
+    `with_trends`, every round side by side."""
     pricing = SitePricing.of(site)
     rolled_up = site_summary(session=session, site=site, survey=survey, pricing=pricing)
     summary = SummaryOut.of(rolled_up)
     recovery = None
     if what_if is not None:
         recovery = _flash_recovery(what_if, rolled_up, pricing, display_for(site))
-    previous = _previous(session, site, survey)
+    previous = compared_with or _previous(session, site, survey)
     comparison = None
     if previous is not None and survey is not None:
         comparison = ComparisonOut.of(
@@ -83,6 +87,9 @@ def summary_context(
         "row_limit": row_limit,
         "what_if": what_if or Form({}),
         "recovery": recovery,
+        "trends": [RoundTrendOut.of(trend) for trend in trends_for(request, session, site)]
+        if with_trends
+        else [],
     }
 
 
@@ -114,10 +121,23 @@ SurveyId = Annotated[
 ]
 
 
+def _compared_with(session: Session, site: Site, survey_id: int | None) -> Survey | None:
+    """The round a summary compares with, when one is chosen (else the one before)."""
+    if survey_id is None:
+        return None
+    return surveys.survey_of_site(session=session, site=site, survey_id=survey_id)
+
+
 @router.get("/sites/{site_id}/summary", response_class=HTMLResponse)
 def summary_page(
-    request: Request, site_id: RecordId, db: Db, viewer: Reading, survey_id: SurveyId = None
+    request: Request,
+    site_id: RecordId,
+    db: Db,
+    viewer: Reading,
+    survey_id: SurveyId = None,
+    compared_with: SurveyId = None,
 ) -> HTMLResponse:
+    """A round's summary, compared with the round before or with `compared_with`."""
     with db.reading() as session:
         site = viewer.get(session, Site, site_id)
         typed = {name: str(value) for name, value in request.query_params.items()}
@@ -128,6 +148,7 @@ def summary_page(
             site,
             surveys.chosen_survey(session=session, site=site, survey_id=survey_id),
             what_if=what_if,
+            compared_with=_compared_with(session, site, compared_with),
         )
         status = 422 if what_if is not None and what_if.errors else 200
         return page(request, "summary.html", site=site, status_code=status, **context)
@@ -145,6 +166,7 @@ def report_page(
             site,
             surveys.chosen_survey(session=session, site=site, survey_id=survey_id),
             row_limit=None,
+            with_trends=True,
         )
         appendix = (
             photos.survey_photos(session=session, survey_id=context["survey"].id)
