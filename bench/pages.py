@@ -7,7 +7,7 @@ from fastapi.testclient import TestClient
 from sqlalchemy import select
 
 from bench.common import bearer_for, heading
-from bench.scale import _build_site
+from bench.scale import build_site
 from service.store.database import Database
 from service.store.demo import load_demo
 from service.store.models import Role, Site, Survey, Trap
@@ -34,7 +34,7 @@ def run(tmp: Path) -> None:
     database.upgrade()
     with database.writing() as session:
         load_demo(session=session)  # only into an empty database: before the large site
-    _build_site(database, "Generated 20000", 20_000)
+    build_site(database, "Generated 20000", 20_000)
     with database.reading() as session:
         big = session.scalar(select(Site.id).where(Site.name == "Generated 20000"))
         first = session.scalar(

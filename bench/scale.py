@@ -109,8 +109,10 @@ def _best_of(repeats: int, work: Callable[[], Any]) -> float:
     return min(_timed(work)[0] for _ in range(repeats))
 
 
-def _build_site(database: Database, name: str, traps: int) -> tuple[float, float]:
-    """A site of `traps` traps and three surveys; (register import s, findings import s)."""
+def build_site(
+    database: Database, name: str, traps: int, years: tuple[int, ...] = (2024, 2025, 2026)
+) -> tuple[float, float]:
+    """A site of `traps` traps and a survey a year; (register import s, findings import s)."""
     content = register_file(traps)
     with database.writing() as session:
         site = register.create_site(
@@ -125,10 +127,10 @@ def _build_site(database: Database, name: str, traps: int) -> tuple[float, float
             lambda: imports.apply_register(session=session, site=site, plan=plan)
         )[0]
     findings_seconds = 0.0
-    for year in (2024, 2025, 2026):
+    for year in years:
         content = findings_file(traps, year, seed=year)
         with database.writing() as session:
-            site = session.get_one(Site, _site_id(database, name))
+            site = session.get_one(Site, site_id_named(database, name))
             survey = surveys.create_survey(
                 session=session,
                 site=site,
@@ -142,7 +144,7 @@ def _build_site(database: Database, name: str, traps: int) -> tuple[float, float
     return register_seconds, findings_seconds
 
 
-def _site_id(database: Database, name: str) -> int:
+def site_id_named(database: Database, name: str) -> int:
     from sqlalchemy import select
 
     with database.reading() as session:
@@ -153,7 +155,7 @@ def _site_id(database: Database, name: str) -> int:
 
 def _summary_timings(database: Database, name: str) -> dict[str, float]:
     with database.reading() as session:
-        site = session.get_one(Site, _site_id(database, name))
+        site = session.get_one(Site, site_id_named(database, name))
         survey = surveys.latest_survey(session=session, site=site)
         assert isinstance(survey, Survey)
         read = _best_of(3, lambda: summary_rows(session, site, survey))
@@ -178,7 +180,7 @@ def run(tmp: Path) -> None:
     timings = {}
     for traps in (2_000, 20_000):
         name = f"Generated {traps}"
-        register_seconds, findings_seconds = _build_site(database, name, traps)
+        register_seconds, findings_seconds = build_site(database, name, traps)
         print(
             f"{traps:6d} traps: register import {register_seconds:6.2f} s, "
             f"{3 * traps} findings import {findings_seconds:6.2f} s"

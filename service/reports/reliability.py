@@ -9,7 +9,7 @@ from collections import defaultdict
 from collections.abc import Callable
 from dataclasses import dataclass
 
-from sqlalchemy import select
+from sqlalchemy import DateTime, select, type_coerce
 from sqlalchemy.orm import Session
 
 from service.physics.conditions import (
@@ -145,16 +145,20 @@ def site_histories(session: Session, site: Site) -> list[TrapHistory]:
         .where(Trap.site_id == site.id, Trap.in_service)
         .order_by(*ROUTE_ORDER)
     ).all()
+    # Through the connection, past the ORM's row loading: a large site has 100,000 rows.
+    connection = session.connection()
     inspections: dict[int, list[Inspection]] = defaultdict(list)
-    for trap_id, tested_at, condition in session.execute(
-        select(Finding.trap_id, Finding.tested_at, Finding.condition)
+    # Only the day counts: read as a plain DateTime, past the UTC decorator's per-row work.
+    tested_at = type_coerce(Finding.tested_at, DateTime())
+    for trap_id, tested_on, condition in connection.execute(
+        select(Finding.trap_id, tested_at, Finding.condition)
         .join(Trap, Trap.id == Finding.trap_id)
         .where(Trap.site_id == site.id)
     ):
         if condition not in NO_EVIDENCE:
-            inspections[trap_id].append(Inspection(tested_at.date(), is_failed(condition)))
+            inspections[trap_id].append(Inspection(tested_on.date(), is_failed(condition)))
     repairs: dict[int, list[dt.date]] = defaultdict(list)
-    for trap_id, repaired_on in session.execute(
+    for trap_id, repaired_on in connection.execute(
         select(Repair.trap_id, Repair.repaired_on)
         .join(Trap, Trap.id == Repair.trap_id)
         .where(Trap.site_id == site.id)
@@ -295,7 +299,7 @@ def site_reliability(
             if lives
         ]
     rates = {group.key: group.estimate.rate for group in groups if group.breakdown == "trap_type"}
-    overall = estimate(every_life) if every_life else estimate([Life(0.0, math.inf)])
+    overall = estimate(every_life or [Life(0.0, math.inf)], with_curves=False)
     return SiteReliability(
         site=site,
         traps=len(histories),

@@ -80,3 +80,21 @@ def test_the_weibull_fit_recovers_a_known_wear_out_shape() -> None:
         assert point.low <= point.surviving <= point.high
         assert point.low - 0.01 <= truth <= point.high + 0.01
     assert [point.low for point in found.weibull_curve if point.years > 8] == [None]
+
+
+@pytest.mark.parametrize("seed", [4, 5])
+def test_the_constant_rate_equals_lifelines_exponential_fitter(seed: int) -> None:
+    # lifelines' ExponentialFitter (Davidson-Pilon 2019) is the reference library here;
+    # its scale is the mean life, 1 / rate.
+    import numpy as np
+    from lifelines import ExponentialFitter
+
+    from service.reliability.estimates import constant_rate
+
+    draw = random.Random(seed)
+    lives = _yearly_tests([draw.expovariate(0.1) for _ in range(800)], rounds=6)
+    lower = np.array([life.lower_years + 1e-6 for life in lives])
+    upper = np.array([life.upper_years for life in lives])
+    reference = ExponentialFitter().fit_interval_censoring(lower, upper)
+    ours = constant_rate(lower, upper, np.ones(len(lives)))
+    assert ours == pytest.approx(1.0 / reference.lambda_, rel=1e-4)
