@@ -217,7 +217,7 @@ def _group(
     found = estimate(lives, with_curves=breakdown == CURVES_FOR)
     best = None
     curve: list[tuple[float, float]] = []
-    if loss is not None and found.rate.per_year > 0:
+    if loss is not None and loss > 0 and found.rate.per_year > 0:
         best = best_test_interval_years(test_cost, found.rate.per_year, loss)
         curve = [
             (years, yearly_testing_cost(years, test_cost, found.rate.per_year, loss))

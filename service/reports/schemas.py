@@ -5,6 +5,7 @@ API can never disagree about a number.
 """
 
 import datetime as dt
+import math
 from typing import Any
 
 from pydantic import BaseModel, ConfigDict, Field
@@ -13,6 +14,7 @@ from service.physics.annual import YearlyLoss
 from service.physics.conditions import FindingCategory, TrapCondition
 from service.physics.spread import Spread
 from service.physics.trap_loss import CondensateDestination
+from service.reliability.estimates import Rate
 from service.reports.compare import Change, SurveyComparison, TrapChange
 from service.reports.reliability import GroupReliability, NextRound, SiteReliability
 from service.reports.summary import PricedTrap, SiteSummary, Tally
@@ -461,6 +463,20 @@ class CostPointOut(BaseModel):
     yearly_cost: float = Field(description="A trap's testing cost plus undetected losses")
 
 
+def rate_fields(rate: Rate) -> dict[str, float | None]:
+    """A failure rate and its interval as fields; an infinite bound (no working time seen
+    yet) is null, as JSON has no infinity.
+
+    >>> rate_fields(Rate(0.0, 0.0, math.inf))["failures_per_year_high"] is None
+    True
+    """
+    return {
+        "failures_per_year": rate.per_year,
+        "failures_per_year_low": rate.low,
+        "failures_per_year_high": rate.high if math.isfinite(rate.high) else None,
+    }
+
+
 class ReliabilityGroupOut(BaseModel):
     """One group of traps: its lives, failure rate with 95 % interval, Weibull fit,
     survival curves and test-interval advice."""
@@ -473,7 +489,9 @@ class ReliabilityGroupOut(BaseModel):
     exposure_years: float
     failures_per_year: float = Field(description="Constant-rate (exponential) fit")
     failures_per_year_low: float
-    failures_per_year_high: float
+    failures_per_year_high: float | None = Field(
+        description="Null where no working time has been seen yet: no bound"
+    )
     weibull_shape: float | None = Field(description="Above 1: failures grow with age")
     weibull_scale_years: float | None
     mean_failure_loss: float | None = Field(
@@ -498,9 +516,7 @@ class ReliabilityGroupOut(BaseModel):
             lives=found.lives,
             failures=found.failures,
             exposure_years=found.exposure_years,
-            **spread_fields(
-                "failures_per_year", Spread(found.rate.per_year, found.rate.low, found.rate.high)
-            ),
+            **rate_fields(found.rate),
             weibull_shape=found.weibull_shape,
             weibull_scale_years=found.weibull_scale_years,
             mean_failure_loss=group.mean_failure_loss,
@@ -582,7 +598,7 @@ class ReliabilityOut(BaseModel):
     failures: int
     failures_per_year: float
     failures_per_year_low: float
-    failures_per_year_high: float
+    failures_per_year_high: float | None
     groups: list[ReliabilityGroupOut]
     next_round: NextRoundOut
 
@@ -596,7 +612,7 @@ class ReliabilityOut(BaseModel):
             traps=found.traps,
             lives=found.lives,
             failures=found.failures,
-            **spread_fields("failures_per_year", Spread(rate.per_year, rate.low, rate.high)),
+            **rate_fields(rate),
             groups=[ReliabilityGroupOut.of(group) for group in found.groups],
             next_round=NextRoundOut.of(found.next_round, route_length),
         )

@@ -137,3 +137,20 @@ def test_the_demo_mill_has_every_breakdown_and_its_expectations_add_up(
         <= upcoming["expected_failure_loss"]
         <= upcoming["expected_failure_loss_high"]
     )
+
+
+def test_a_trap_seen_once_gives_no_bound_and_no_interval_rather_than_infinity(
+    api: TestClient,
+) -> None:
+    # Found working at its only test, with no installation date: a life of unknown
+    # length so far, no working time seen, so the rate has no upper bound (JSON: null).
+    site = make_site(api)
+    trap = make_trap(api, site, tag="ONCE-1")
+    make_finding(api, make_survey(api, site), trap, condition="working")
+    answer = api.get(f"/api/v1/sites/{site['id']}/reliability")
+    assert answer.status_code == 200
+    group = _group(answer.json(), "trap_type", "thermodynamic")
+    assert (group["failures_per_year"], group["failures_per_year_high"]) == (0.0, None)
+    assert group["best_test_interval_years"] is None
+    assert group["cost_curve"] == []
+    assert api.get(f"/sites/{site['id']}/reliability").status_code == 200
