@@ -280,24 +280,24 @@ async function keepRound(line) {
 // Read a trap's QR label with the camera, where the browser offers barcode detection;
 // typing the tag always works. The code holds the trap's address: the form takes it.
 async function scanTag(form) {
-  const video = document.getElementById("scanner");
+  const viewfinder = document.getElementById("scanner");
   let stream;
   try {
     stream = await navigator.mediaDevices.getUserMedia({ video: { facingMode: "environment" } });
   } catch (error) {
     return; // no camera, or not allowed: the tag can be typed
   }
-  video.srcObject = stream;
-  video.hidden = false;
-  await video.play();
+  viewfinder.srcObject = stream;
+  viewfinder.hidden = false;
+  await viewfinder.play();
   const detector = new BarcodeDetector({ formats: ["qr_code"] });
   const stop = () => {
     stream.getTracks().forEach((track) => track.stop());
-    video.hidden = true;
+    viewfinder.hidden = true;
   };
   const deadline = Date.now() + 60 * 1000;
   while (Date.now() < deadline) {
-    const codes = await detector.detect(video).catch(() => []);
+    const codes = await detector.detect(viewfinder).catch(() => []);
     if (codes.length) {
       stop();
       form.elements.tag.value = codes[0].rawValue;
