@@ -214,3 +214,30 @@ def test_a_summary_of_another_sites_survey_is_not_found(api: TestClient) -> None
     empty = api.get(f"/api/v1/sites/{site['id']}/summary").json()
     assert empty["survey"] is None
     assert empty["failure_rate"] is None
+
+
+def test_the_current_round_is_priced_once_and_again_after_any_write(
+    api: TestClient, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    from service.reports import cache, summary
+
+    site = make_site(api)
+    trap = make_trap(api, site)
+    survey = make_survey(api, site)
+    make_finding(api, survey, trap, condition="leaking")
+    priced: list[int] = []
+    original = summary.site_summary
+
+    def counting(**arguments: Any) -> Any:
+        priced.append(arguments["survey"].id)
+        return original(**arguments)
+
+    monkeypatch.setattr(cache, "site_summary", counting)
+    path = f"/api/v1/sites/{site['id']}/summary"
+    first = api.get(path).json()
+    assert api.get(path).json() == first
+    assert api.get(f"/sites/{site['id']}/summary").status_code == 200
+    assert priced == [survey["id"]]  # the API twice and the page: priced once
+    make_finding(api, survey, trap, condition="working", tested_at="2026-03-03T09:00:00Z")
+    assert api.get(path).json()["failure_count"] == 0  # the write bumped the revision
+    assert priced == [survey["id"], survey["id"]]

@@ -2,7 +2,7 @@
 
 from typing import Annotated
 
-from fastapi import APIRouter, Query, Response
+from fastapi import APIRouter, Query, Request, Response
 from sqlalchemy import select
 
 from service.physics.pressure import STANDARD_ATMOSPHERE_KPA
@@ -11,7 +11,6 @@ from service.reports.compare import compare_surveys
 from service.reports.opportunities import flash_recovery_what_if
 from service.reports.pricing import SitePricing
 from service.reports.schemas import ComparisonOut, FlashRecoveryWhatIfOut, SummaryOut
-from service.reports.summary import site_summary
 from service.store import register
 from service.store.models import Site
 from service.store.records import paged
@@ -20,6 +19,7 @@ from service.store.surveys import chosen_survey, survey_of_site
 from service.web.access import Administering, Managing, Reading
 from service.web.dependencies import MAX_RECORD_ID, Db, PageOut, PagingDep, RecordId, RecordIdQuery
 from service.web.errors import reported_against
+from service.web.rollups import summary_for
 
 router = APIRouter(tags=["sites"])
 
@@ -66,6 +66,7 @@ def delete_site(site_id: RecordId, db: Db, viewer: Administering) -> Response:
 @router.get("/sites/{site_id}/summary", summary="A survey priced and rolled up")
 def summary(
     site_id: RecordId,
+    request: Request,
     db: Db,
     viewer: Reading,
     survey_id: Annotated[
@@ -76,7 +77,7 @@ def summary(
     with db.reading() as session:
         site = viewer.get(session, Site, site_id)
         survey = chosen_survey(session=session, site=site, survey_id=survey_id)
-        return SummaryOut.of(site_summary(session=session, site=site, survey=survey))
+        return SummaryOut.of(summary_for(request, session, site, survey))
 
 
 @router.get(
@@ -84,6 +85,7 @@ def summary(
 )
 def flash_recovery(
     site_id: RecordId,
+    request: Request,
     db: Db,
     viewer: Reading,
     vessel_pressure_kpa_g: Annotated[
@@ -103,7 +105,7 @@ def flash_recovery(
         site = viewer.get(session, Site, site_id)
         survey = chosen_survey(session=session, site=site, survey_id=survey_id)
         pricing = SitePricing.of(site)
-        summary = site_summary(session=session, site=site, survey=survey, pricing=pricing)
+        summary = summary_for(request, session, site, survey, pricing)
         with reported_against("query", "vessel_pressure_kpa_g", typed=vessel_pressure_kpa_g):
             what_if = flash_recovery_what_if(
                 summary=summary,

@@ -11,7 +11,6 @@ from sqlalchemy.orm import Session
 
 from service.reports.exports import repair_list_csv
 from service.reports.schemas import SummaryOut
-from service.reports.summary import site_summary
 from service.store import exports, imports
 from service.store.audit import Actor
 from service.store.csv_format import MAX_CSV_BYTES
@@ -20,6 +19,7 @@ from service.store.models import Site, Survey
 from service.store.surveys import chosen_survey
 from service.web.access import Managing, Reading
 from service.web.dependencies import Db, OptionalRecordIdQuery, RecordId
+from service.web.rollups import summary_for
 
 router = APIRouter(tags=["import and export"])
 
@@ -277,10 +277,14 @@ def export_repairs(site_id: RecordId, db: Db, viewer: Reading) -> Response:
     responses=CSV_RESPONSE,
 )
 def export_repair_list(
-    site_id: RecordId, db: Db, viewer: Reading, survey_id: OptionalRecordIdQuery = None
+    site_id: RecordId,
+    request: Request,
+    db: Db,
+    viewer: Reading,
+    survey_id: OptionalRecordIdQuery = None,
 ) -> Response:
     with db.reading() as session:
         site = viewer.get(session, Site, site_id)
         survey = chosen_survey(session=session, site=site, survey_id=survey_id)
-        summary = SummaryOut.of(site_summary(session=session, site=site, survey=survey))
+        summary = SummaryOut.of(summary_for(request, session, site, survey))
     return _csv_response(repair_list_csv(summary), "repair-list.csv")

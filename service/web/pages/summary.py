@@ -13,7 +13,7 @@ from service.reports.compare import compare_surveys
 from service.reports.opportunities import flash_recovery_what_if
 from service.reports.pricing import SitePricing
 from service.reports.schemas import ComparisonOut, FlashRecoveryWhatIfOut, RoundTrendOut, SummaryOut
-from service.reports.summary import SiteSummary, site_summary
+from service.reports.summary import SiteSummary
 from service.store import photos, surveys
 from service.store.models import Site, Survey
 from service.web.access import Reading
@@ -21,7 +21,7 @@ from service.web.dependencies import MAX_RECORD_ID, Db, RecordId
 from service.web.display import Display
 from service.web.forms import Form
 from service.web.pages.templating import display_for, page
-from service.web.rollups import trends_for
+from service.web.rollups import summary_for, trends_for
 
 router = APIRouter(include_in_schema=False)
 
@@ -56,7 +56,7 @@ def summary_context(
     cache of roll-ups. With `what_if` (the flash-recovery form), its answer or its errors;
     `with_trends`, every round side by side."""
     pricing = SitePricing.of(site)
-    rolled_up = site_summary(session=session, site=site, survey=survey, pricing=pricing)
+    rolled_up = summary_for(request, session, site, survey, pricing)
     summary = SummaryOut.of(rolled_up)
     recovery = None
     if what_if is not None:
@@ -72,9 +72,7 @@ def summary_context(
                 before=previous,
                 after=survey,
                 after_summary=rolled_up,
-                before_summary=request.app.state.rollups.summary(
-                    session=session, site=site, survey=previous, pricing=pricing
-                ),
+                before_summary=summary_for(request, session, site, previous, pricing),
                 pricing=pricing,
             ),
         )

@@ -6,13 +6,13 @@ from fastapi import APIRouter, Request
 from fastapi.responses import HTMLResponse
 from sqlalchemy import select
 
-from service.reports.summary import site_summary
 from service.store import surveys
 from service.store.models import Site, Trap
 from service.web.access import Reading
 from service.web.dependencies import Db, RecordId
 from service.web.pages.summary import SurveyId
 from service.web.pages.templating import page
+from service.web.rollups import summary_for
 
 router = APIRouter(include_in_schema=False)
 
@@ -24,7 +24,7 @@ def work_orders(
     with db.reading() as session:
         site = viewer.get(session, Site, site_id)
         survey = surveys.chosen_survey(session=session, site=site, survey_id=survey_id)
-        summary = site_summary(session=session, site=site, survey=survey)
+        summary = summary_for(request, session, site, survey)
         # Failed traps not yet repaired since the finding, in route order (the summary's).
         orders = [each for each in summary.priced if each.failed and each.repaired_on is None]
         payback_rank = {each.trap_id: rank for rank, each in enumerate(summary.repair_list, 1)}
