@@ -128,6 +128,15 @@ class SiteReliability:
     next_round: NextRound
 
 
+def _groups_of(trap_type: str, application: str, inlet_kpa_g: float) -> dict[str, str]:
+    """A trap's group in each breakdown."""
+    return {
+        "trap_type": str(trap_type),
+        "application": str(application),
+        "pressure_class": pressure_class(inlet_kpa_g),
+    }
+
+
 def site_histories(session: Session, site: Site) -> list[TrapHistory]:
     """Every trap in service with its tests (those that told whether it worked) and
     repairs, in route order."""
@@ -169,11 +178,7 @@ def site_histories(session: Session, site: Site) -> list[TrapHistory]:
             trap_id=trap_id,
             tag=tag,
             area_name=area_name or "(no area)",
-            groups={
-                "trap_type": str(trap_type),
-                "application": str(application),
-                "pressure_class": pressure_class(inlet_kpa_g),
-            },
+            groups=_groups_of(trap_type, application, inlet_kpa_g),
             inspections=inspections[trap_id],
             repairs=repairs[trap_id],
             installed_on=installed_on,
@@ -187,18 +192,13 @@ def _mean_failure_losses(summary: SiteSummary | None) -> Callable[[str, str], fl
     failures; the site's mean where the group had none; None before any failure."""
     losses: dict[tuple[str, str], list[float]] = defaultdict(list)
     every: list[float] = []
-    for priced in summary.priced if summary is not None else []:
+    priced_traps = summary.priced if summary is not None else []
+    atmosphere_kpa = summary.site.atmospheric_pressure_kpa if summary is not None else 0.0
+    for priced in priced_traps:
         if category_of(priced.condition) != FindingCategory.FAILURE:
             continue
-        groups = {
-            "trap_type": str(priced.trap_type),
-            "application": str(priced.application),
-            "pressure_class": pressure_class(
-                priced.service.inlet_pressure_kpa_abs - summary.site.atmospheric_pressure_kpa
-                if summary is not None
-                else 0.0
-            ),
-        }
+        inlet_kpa_g = priced.service.inlet_pressure_kpa_abs - atmosphere_kpa
+        groups = _groups_of(priced.trap_type, priced.application, inlet_kpa_g)
         for breakdown, key in groups.items():
             losses[(breakdown, key)].append(priced.yearly_cost)
         every.append(priced.yearly_cost)
