@@ -158,8 +158,12 @@ def convert(
     95.0
     >>> round(convert(212.0, "°F", "°C"), 9)
     100.0
+    >>> convert(0.1, "kPa(g)", "kPa(g)")
+    0.1
     """
     source, target = unit(from_symbol), unit(to_symbol)
+    if from_symbol == to_symbol:
+        return value
     if source.dimension is not target.dimension:
         raise ValueError(f"cannot convert {source.dimension} in {from_symbol} to {to_symbol}")
     if source.dimension is not Dimension.PRESSURE:

@@ -55,8 +55,13 @@ class Actor:
 SYSTEM = Actor(user_id=None, name="system")
 
 
+_JSON_READY = (str, int, float, bool, type(None))
+
+
 def _plain(value: Any) -> Any:
     """A stored value as JSON can hold it."""
+    if type(value) in _JSON_READY:  # most are: no further test (a StrEnum is not)
+        return value
     if isinstance(value, Enum):
         return value.value
     if isinstance(value, dt.date | dt.datetime):
@@ -119,6 +124,60 @@ def _site_ids(session: Session, trap_ids: set[int]) -> dict[int, int]:
     return dict(rows.all())
 
 
+def _entry(
+    session: Session,
+    action: str,
+    record_type: str,
+    record_id: int,
+    site_id: int | None,
+    trap_id: int | None,
+    old: dict[str, Any] | None,
+    new: dict[str, Any] | None,
+) -> dict[str, Any]:
+    """One audit entry's columns, by the session's actor, now."""
+    actor: Actor = session.info.get(ACTOR_KEY, SYSTEM)
+    return {
+        "at": dt.datetime.now(dt.UTC),
+        "actor_user_id": actor.user_id,
+        "actor_name": actor.name,
+        "action": action,
+        "record_type": record_type,
+        "record_id": record_id,
+        "site_id": site_id,
+        "trap_id": trap_id,
+        "old_values": old,
+        "new_values": new,
+    }
+
+
+def write_created_entries(
+    session: Session, model: type[Any], rows: list[dict[str, Any]], site_id: int
+) -> None:
+    """One "created" entry for each row of `model` inserted past the ORM (each row holds
+    every column, its "id" among them), in the session's transaction: the values a flush
+    of the same record would record."""
+    keys = [
+        attribute.key
+        for attribute in inspect(model).column_attrs
+        if attribute.key not in _NOT_COPIED and attribute.key not in _SECRET
+    ]
+    entries = [
+        _entry(
+            session,
+            "created",
+            AUDITED[model],
+            row["id"],
+            site_id,
+            row["id"] if model is Trap else row.get("trap_id"),
+            None,
+            {key: _plain(row[key]) for key in keys},
+        )
+        for row in rows
+    ]
+    if entries:
+        session.connection().execute(insert(AuditEntry), entries)
+
+
 def write_audit_entries(session: Session, _flush_context: Any) -> None:
     """After a flush: one audit entry for each audited record it created, changed or deleted."""
     touched: list[tuple[str, Any]] = [
@@ -129,11 +188,9 @@ def write_audit_entries(session: Session, _flush_context: Any) -> None:
     touched = [(action, record) for action, record in touched if type(record) in AUDITED]
     if not touched:
         return
-    actor: Actor = session.info.get(ACTOR_KEY, SYSTEM)
     trap_sites = _site_ids(
         session, {trap for _, record in touched if (trap := _trap_id(record)) is not None}
     )
-    now = dt.datetime.now(dt.UTC)
     entries = []
     for action, record in touched:
         if action == "created":
@@ -151,18 +208,7 @@ def write_audit_entries(session: Session, _flush_context: Any) -> None:
             else getattr(record, "site_id", None) or trap_sites.get(trap_id or 0)
         )
         entries.append(
-            {
-                "at": now,
-                "actor_user_id": actor.user_id,
-                "actor_name": actor.name,
-                "action": action,
-                "record_type": AUDITED[type(record)],
-                "record_id": record.id,
-                "site_id": site_id,
-                "trap_id": trap_id,
-                "old_values": old,
-                "new_values": new,
-            }
+            _entry(session, action, AUDITED[type(record)], record.id, site_id, trap_id, old, new)
         )
     if entries:
         session.connection().execute(insert(AuditEntry), entries)

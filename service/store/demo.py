@@ -43,5 +43,5 @@ def load_demo(*, session: Session, folder: Path = SEED_DATA) -> Site | None:
         surveys.update_survey(session=session, survey=survey, changes={"status": status})
     content = (folder / "repairs.csv").read_bytes()
     repairs = imports.plan_repairs(session=session, site=site, content=content)
-    imports.apply_repairs(session=session, plan=_applied(repairs, "repairs.csv"))
+    imports.apply_repairs(session=session, site=site, plan=_applied(repairs, "repairs.csv"))
     return site

@@ -20,7 +20,7 @@ from pydantic import BaseModel, ValidationError
 from sqlalchemy import select
 from sqlalchemy.orm import Session
 
-from service.store import register, surveys
+from service.store import bulk, register, surveys
 from service.store.csv_format import (
     Problem,
     Table,
@@ -393,9 +393,13 @@ def apply_register(*, session: Session, site: Site, plan: ImportPlan[TrapCreate]
         raise ValueError("a plan with problems or unconfirmed areas cannot be applied")
     names = {row.cells.get("area", "") for row in plan.rows} - {""}
     area_ids = _area_ids(session, site, names)
+    updated = {row.existing_id for row in plan.rows if row.existing_id is not None}
     stored = {
-        trap.id: trap for trap in session.scalars(select(Trap).where(Trap.site_id == site.id))
+        trap.id: trap
+        for trap in session.scalars(select(Trap).where(Trap.id.in_(updated)))
+        if updated
     }
+    created = []
     for row in plan.rows:
         values = row.data.model_dump()
         area_name = row.cells.get("area")
@@ -404,12 +408,13 @@ def apply_register(*, session: Session, site: Site, plan: ImportPlan[TrapCreate]
         elif row.existing_id is not None:
             values.pop("area_id")
         if row.existing_id is None:
-            session.add(Trap(site_id=site.id, **values))
+            created.append({"site_id": site.id, **values})
         else:
             trap = stored[row.existing_id]
             for name, value in values.items():
                 setattr(trap, name, value)
     session.flush()
+    bulk.insert_audited(session, Trap, created, site.id)
 
 
 # Findings -----------------------------------------------------------------------------
@@ -430,19 +435,22 @@ def _apply(
     plan: ImportPlan[Any],
     model: type[Finding] | type[Repair],
     owner: Callable[[PlannedRow[Any]], dict[str, Any]],
+    site_id: int,
 ) -> None:
     """Create the plan's new records and update the ones it names, in the session."""
     if not plan.clean:
         raise ValueError("a plan with problems cannot be applied")
+    created = []
     for row in plan.rows:
         values = row.data.model_dump()
         if row.existing_id is None:
-            session.add(model(**owner(row), **values))
+            created.append({**owner(row), **values})
         else:
             record = session.get_one(model, row.existing_id)
             for name, value in values.items():
                 setattr(record, name, value)
     session.flush()
+    bulk.insert_audited(session, model, created, site_id)
 
 
 def _trap_ids(session: Session, site_id: int) -> dict[str, int]:
@@ -481,7 +489,7 @@ def plan_findings(*, session: Session, survey: Survey, content: bytes) -> Import
 
 
 def apply_findings(*, session: Session, survey: Survey, plan: ImportPlan[FindingCreate]) -> None:
-    _apply(session, plan, Finding, lambda row: {"survey_id": survey.id})
+    _apply(session, plan, Finding, lambda row: {"survey_id": survey.id}, survey.site_id)
 
 
 # Repairs ------------------------------------------------------------------------------
@@ -509,5 +517,5 @@ def plan_repairs(*, session: Session, site: Site, content: bytes) -> ImportPlan[
     return _plan(content, REPAIRS, "repairs", prepare)
 
 
-def apply_repairs(*, session: Session, plan: ImportPlan[RepairCreate]) -> None:
-    _apply(session, plan, Repair, lambda row: {"trap_id": row.trap_id})
+def apply_repairs(*, session: Session, site: Site, plan: ImportPlan[RepairCreate]) -> None:
+    _apply(session, plan, Repair, lambda row: {"trap_id": row.trap_id}, site.id)

@@ -63,7 +63,9 @@ class UtcDateTime(TypeDecorator[dt.datetime]):
             return None
         if value.tzinfo is None:
             raise ValueError("a stored moment must carry its time zone")
-        return value.astimezone(dt.UTC).replace(tzinfo=None)
+        if value.tzinfo is not dt.UTC:
+            value = value.astimezone(dt.UTC)
+        return value.replace(tzinfo=None)
 
     def process_result_value(self, value: Any, dialect: Dialect) -> dt.datetime | None:
         return None if value is None else value.replace(tzinfo=dt.UTC)

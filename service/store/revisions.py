@@ -2,7 +2,8 @@
 transaction, so a roll-up computed at one revision is known to hold until the next.
 
 Writes through the ORM are seen here (a flush of new, changed or deleted sites, areas,
-traps, surveys, findings or repairs); SQL run by hand past the ORM is not.
+traps, surveys, findings or repairs); a write past the ORM (the bulk inserts of
+`service.store.bulk`) calls `bump_sites` itself.
 """
 
 from typing import Any
@@ -34,10 +35,14 @@ def _touched_sites(session: Session, records: list[Any]) -> set[int]:
     return {site for site in sites if site is not None}
 
 
+def bump_sites(session: Session, site_ids: set[int]) -> None:
+    """Raise the revision of each site, in the session's transaction."""
+    if site_ids:
+        session.connection().execute(
+            update(Site).where(Site.id.in_(site_ids)).values(revision=Site.revision + 1)
+        )
+
+
 def bump_revisions(session: Session, _flush_context: Any) -> None:
     """After a flush: raise the revision of every site whose records it wrote."""
-    touched = _touched_sites(session, [*session.new, *session.dirty, *session.deleted])
-    if touched:
-        session.connection().execute(
-            update(Site).where(Site.id.in_(touched)).values(revision=Site.revision + 1)
-        )
+    bump_sites(session, _touched_sites(session, [*session.new, *session.dirty, *session.deleted]))

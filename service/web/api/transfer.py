@@ -216,7 +216,7 @@ async def import_repairs(
         )
 
     def apply(session: Session, found: imports.ImportPlan[Any]) -> None:
-        imports.apply_repairs(session=session, plan=found)
+        imports.apply_repairs(session=session, site=viewer.get(session, Site, site_id), plan=found)
 
     return await _import(request, db, viewer.actor, commit, plan, apply)
 

@@ -50,7 +50,7 @@ def _apply(session: Session, site: Site, kind: str, survey_id: int | None, plan:
             session=session, survey=get(session, Survey, survey_id or 0), plan=plan
         )
     elif kind == "repairs":
-        imports.apply_repairs(session=session, plan=plan)
+        imports.apply_repairs(session=session, site=site, plan=plan)
     else:
         imports.apply_register(session=session, site=site, plan=plan)
 
