@@ -12,7 +12,7 @@ import time
 from collections.abc import Callable
 from pathlib import Path
 
-from bench import api_load, pages, physics, reliability, scale, workers
+from bench import api_load, pages, physics, reliability, scale, walk, workers
 
 BENCHMARKS: dict[str, Callable[[Path], None]] = {
     "physics": lambda tmp: physics.run(),
@@ -20,6 +20,7 @@ BENCHMARKS: dict[str, Callable[[Path], None]] = {
     "scale": scale.run,
     "writers": scale.run_writers,
     "pages": pages.run,
+    "walk": walk.run,
     "workers": workers.run,
     "reliability": reliability.run,
 }

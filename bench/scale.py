@@ -13,6 +13,7 @@ from typing import Any
 import httpx
 
 from bench.common import bearer_for, heading, served
+from bench.plant import Shape, generated_traps
 from service.reports.schemas import SummaryOut
 from service.reports.summary import site_summary, summary_rows
 from service.store import imports, register, surveys
@@ -20,14 +21,6 @@ from service.store.database import Database
 from service.store.models import Role, Site, Survey
 from service.store.schemas import SiteCreate, SurveyCreate
 
-PRESSURE_LEVELS_KPA_G = [1000.0, 850.0, 700.0, 550.0, 400.0, 300.0, 200.0, 100.0, 50.0]
-KINDS = [
-    ("drip", "thermodynamic", 3.2, "vented_receiver"),
-    ("process", "float_thermostatic", 6.4, "closed_return"),
-    ("process", "inverted_bucket", 4.8, "closed_return"),
-    ("tracer", "thermostatic_balanced_pressure", 2.4, "drain"),
-    ("space_heating", "thermostatic_bimetallic", 3.2, "vented_receiver"),
-]
 CONDITIONS = [
     ("working", 80),
     ("leaking", 7),
@@ -48,40 +41,27 @@ def _csv(header: list[str], rows: list[list[Any]]) -> bytes:
     return out.getvalue().encode()
 
 
-def register_file(traps: int, seed: int = 11) -> bytes:
-    chooser = random.Random(seed)
-    rows = []
-    for number in range(traps):
-        application, trap_type, orifice_mm, destination = chooser.choice(KINDS)
-        inlet = chooser.choice(PRESSURE_LEVELS_KPA_G)
-        rows.append(
-            [
-                f"T{number:06d}",
-                f"Area {number % 12:02d}",
-                number,
-                application,
-                trap_type,
-                orifice_mm,
-                inlet,
-                # A vented receiver is open to atmosphere; a return may be pressurised.
-                0.0 if destination == "vented_receiver" else chooser.choice([0.0, inlet * 0.1]),
-                destination,
-                chooser.choice([10.0, 40.0, 150.0]),
-            ]
-        )
-    header = [
-        "tag",
-        "area",
-        "route_position",
-        "application",
-        "trap_type",
-        "orifice_diameter_mm",
-        "inlet_pressure_kpa_g",
-        "return_pressure_kpa_g",
-        "condensate_destination",
-        "condensate_load_kg_h",
+REGISTER_COLUMNS = [
+    "tag",
+    "area",
+    "route_position",
+    "application",
+    "trap_type",
+    "orifice_diameter_mm",
+    "inlet_pressure_kpa_g",
+    "return_pressure_kpa_g",
+    "condensate_destination",
+    "condensate_load_kg_h",
+    "steam_temperature_c",
+]
+
+
+def register_file(traps: int, shape: Shape = "levels", seed: int = 11) -> bytes:
+    rows = [
+        ["" if (value := getattr(trap, column)) is None else value for column in REGISTER_COLUMNS]
+        for trap in generated_traps(traps, shape, seed)
     ]
-    return _csv(header, rows)
+    return _csv(REGISTER_COLUMNS, rows)
 
 
 def findings_file(traps: int, year: int, seed: int) -> bytes:

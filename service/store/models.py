@@ -158,7 +158,11 @@ class Trap(Base):
     """One steam trap of the register."""
 
     __tablename__ = "traps"
-    __table_args__ = (UniqueConstraint("site_id", "tag"),)
+    __table_args__ = (
+        UniqueConstraint("site_id", "tag"),
+        # The walk counts a site's traps in service by area, and reads the unplaced ones.
+        Index("ix_traps_site_in_service_area", "site_id", "in_service", "area_id"),
+    )
 
     id: Mapped[int] = mapped_column(primary_key=True)
     site_id: Mapped[int] = mapped_column(ForeignKey("sites.id"), index=True)
@@ -208,7 +212,11 @@ class Finding(Base):
     """One test of one trap in one survey. The latest in a survey is the one that counts."""
 
     __tablename__ = "findings"
-    __table_args__ = (Index("ix_findings_survey_trap_tested", "survey_id", "trap_id", "tested_at"),)
+    __table_args__ = (
+        Index("ix_findings_survey_trap_tested", "survey_id", "trap_id", "tested_at"),
+        # The walk's count of traps found not accessible in a round reads only those.
+        Index("ix_findings_survey_condition", "survey_id", "condition"),
+    )
 
     id: Mapped[int] = mapped_column(primary_key=True)
     survey_id: Mapped[int] = mapped_column(ForeignKey("surveys.id"))

@@ -180,12 +180,9 @@ def _check_pressures(site: Site, inlet_kpa_g: float, return_kpa_g: float) -> Non
 # The order a technician walks: areas by their route order, traps by their position in
 # the area, then by tag. Unplaced areas and traps come last on every database (SQLite
 # sorts NULL first and PostgreSQL last unless told).
-ROUTE_ORDER = (
-    Area.route_order.asc().nulls_last(),
-    Area.name,
-    Trap.route_position.asc().nulls_last(),
-    Trap.tag,
-)
+AREA_ORDER = (Area.route_order.asc().nulls_last(), Area.name)
+TRAP_ORDER_IN_AREA = (Trap.route_position.asc().nulls_last(), Trap.tag)
+ROUTE_ORDER = (*AREA_ORDER, *TRAP_ORDER_IN_AREA)
 
 
 def _check_trap(session: Session, site: Site, data: TrapCreate, trap_id: int | None) -> None:

@@ -17,13 +17,11 @@ from pydantic import ValidationError
 from sqlalchemy.orm import Session
 
 from service.accounts.roles import Permission
-from service.physics.conditions import TrapCondition
 from service.physics.evidence import Doubt, temperature_doubts
 from service.physics.pressure import absolute_from_gauge
 from service.physics.units import Dimension
-from service.reports.summary import SummaryRow, summary_rows
 from service.shipped import STATIC
-from service.store import photos, register, surveys
+from service.store import photos, register, route, surveys
 from service.store.errors import ConflictError, FieldError, NotFoundError
 from service.store.models import Finding, Site, Survey, Trap
 from service.store.records import get
@@ -42,19 +40,6 @@ router = APIRouter(include_in_schema=False)
 COOKIE_PREFIX = "traptally_walk_"
 TESTED_BY_COOKIE, PINNED_METHOD_COOKIE = COOKIE_PREFIX + "tested_by", COOKIE_PREFIX + "method"
 REMEMBERED_DAYS = 14
-
-
-def _route(session: Session, site: Site, survey: Survey) -> list[SummaryRow]:
-    return [row for row in summary_rows(session, site, survey) if row.in_service]
-
-
-def _next_untested(route: list[SummaryRow], after_trap_id: int | None) -> SummaryRow | None:
-    """The first untested trap after this one in route order, wrapping round."""
-    start = next((i + 1 for i, row in enumerate(route) if row.trap_id == after_trap_id), 0)
-    for row in route[start:] + route[:start]:
-        if row.finding_id is None:
-            return row
-    return None
 
 
 @router.get("/sites/{site_id}/walk")
@@ -86,10 +71,10 @@ def walk_for_offline(survey_id: RecordId, db: Db, viewer: Reading) -> dict[str, 
     each trap's form, in route order."""
     with db.reading() as session:
         survey = viewer.get(session, Survey, survey_id)
-        site = viewer.get(session, Site, survey.site_id)
-        route = _route(session, site, survey)
+        viewer.get(session, Site, survey.site_id)
+        trap_ids = route.RouteOf(session, survey).trap_ids()
     walk_url = f"/surveys/{survey_id}/walk"
-    return {"pages": [walk_url, *(f"{walk_url}/traps/{row.trap_id}" for row in route)]}
+    return {"pages": [walk_url, *(f"{walk_url}/traps/{trap_id}" for trap_id in trap_ids)]}
 
 
 @router.get("/surveys/{survey_id}/walk", response_class=HTMLResponse)
@@ -120,28 +105,27 @@ def _walk_page(
     status_code: int = 200,
 ) -> HTMLResponse:
     site = get(session, Site, survey.site_id)
-    route = _route(session, site, survey)
-    areas = list(dict.fromkeys(row.area_name or "(no area)" for row in route))
-    not_accessible = [r for r in route if r.condition == TrapCondition.NOT_ACCESSIBLE]
-    shown = [row for row in route if area in (None, "", row.area_name or "(no area)")]
-    if retest:
-        shown = [row for row in shown if row.condition == TrapCondition.NOT_ACCESSIBLE]
+    walked = route.RouteOf(session, survey)
+    stops, shown = walked.page(area=area, retest=retest, offset=offset, limit=ROUTE_PAGE)
+    so_far = walked.progress()
+    # Every trap on a "test again" list has a finding already: none is untested.
+    untested = not retest and so_far.done < so_far.total
     return page(
         request,
         "walk.html",
         site=site,
         survey=survey,
-        route=shown[offset : offset + ROUTE_PAGE],
-        areas=areas,
+        route=stops,
+        areas=so_far.areas,
         area=area or "",
         retest=retest,
-        not_accessible=len(not_accessible),
-        done=sum(row.finding_id is not None for row in route),
-        total=len(route),
-        shown=len(shown),
+        not_accessible=so_far.not_accessible,
+        done=so_far.done,
+        total=so_far.total,
+        shown=shown,
         offset=offset,
         page_size=ROUTE_PAGE,
-        next_trap=_next_untested(shown, None),
+        next_trap=walked.next_untested(area=area) if untested else None,
         find=find or Form({}),
         status_code=status_code,
     )
@@ -220,11 +204,12 @@ def _finding_page(
     status_code: int = 200,
 ) -> HTMLResponse:
     site = get(session, Site, survey.site_id)
-    route = _route(session, site, survey)
-    position = next((i for i, row in enumerate(route) if row.trap_id == trap.id), None)
+    walked = route.RouteOf(session, survey)
+    so_far = walked.progress()
     # Where a save kept on the tablet (no connection) goes on to: the next trap in route
     # order, as the server cannot say which are still untested.
-    following = route[position + 1] if position is not None and position + 1 < len(route) else None
+    place = walked.place_of(trap)
+    following = place.following
     next_url = f"/surveys/{survey.id}/walk" + (
         f"/traps/{following.trap_id}" if following is not None else ""
     )
@@ -238,9 +223,9 @@ def _finding_page(
         form=form,
         saved=saved,
         saved_trap=get(session, Trap, saved.trap_id) if saved else None,
-        position=position,
-        total=len(route),
-        done=sum(r.finding_id is not None for r in route),
+        position=place.position,
+        total=so_far.total,
+        done=so_far.done,
         history=list(reversed(earlier))[:3],
         methods=list(TestMethod),
         actions=list(RecommendedAction),
@@ -380,7 +365,7 @@ async def save_finding(
         if finding is None:
             return _finding_page(request, session, survey, trap, form, status_code=422)
         session.flush()
-        following = _next_untested(_route(session, site, survey), trap.id)
+        following = route.RouteOf(session, survey).next_untested(after=trap)
     target = (
         f"/surveys/{survey_id}/walk/traps/{following.trap_id}?saved={finding.id}"
         if following is not None
