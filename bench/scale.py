@@ -12,7 +12,7 @@ from typing import Any
 
 import httpx
 
-from bench.common import bearer_for, heading, served
+from bench.common import bearer_for, heading, percentile, served
 from bench.plant import Shape, generated_traps
 from service.reports.schemas import SummaryOut
 from service.reports.summary import site_summary, summary_rows
@@ -180,8 +180,9 @@ def run(tmp: Path) -> None:
 
 async def _writers(
     base: str, survey_id: int, trap_ids: list[int], writers: list[dict[str, str]], each: int
-) -> tuple[int, int, float]:
+) -> tuple[int, list[float], float]:
     errors = 0
+    latencies: list[float] = []
 
     async def writer(number: int) -> None:
         nonlocal errors
@@ -192,11 +193,13 @@ async def _writers(
                 "method": "ultrasonic",
                 "condition": "working" if index % 5 else "leaking",
             }
+            sent_at = time.perf_counter()
             answer = await clients[number].post(
                 f"{base}/api/v1/surveys/{survey_id}/findings",
                 json=body,
                 headers={"Idempotency-Key": f"writer-{number:02d}-finding-{index:04d}"},
             )
+            latencies.append(time.perf_counter() - sent_at)
             errors += answer.status_code != 201
 
     start = time.perf_counter()
@@ -204,11 +207,17 @@ async def _writers(
     await asyncio.gather(*(writer(number) for number in range(len(writers))))
     for client in clients:
         await client.aclose()
-    return errors, len(writers) * each, time.perf_counter() - start
+    return errors, latencies, time.perf_counter() - start
+
+
+WRITERS, EACH = 16, 100
 
 
 def run_writers(tmp: Path) -> None:
-    heading("writers: 8 technicians recording 200 findings each at once (SQLite, over HTTP)")
+    heading(
+        f"writers: {WRITERS} technicians recording {EACH} findings each at once "
+        "(SQLite, over HTTP, one worker)"
+    )
     path = tmp / "writers.db"
     for suffix in ("", "-wal", "-shm"):
         Path(f"{path}{suffix}").unlink(missing_ok=True)
@@ -242,11 +251,18 @@ def run_writers(tmp: Path) -> None:
         ).json()
         technicians = [
             bearer_for(url, f"bench-technician-{number}", Role.TECHNICIAN, (site["id"],))
-            for number in range(8)
+            for number in range(WRITERS)
         ]
-        errors, sent, seconds = asyncio.run(_writers(base, survey["id"], traps, technicians, 200))
+        errors, latencies, seconds = asyncio.run(
+            _writers(base, survey["id"], traps, technicians, EACH)
+        )
         stored = httpx.get(
             f"{base}/api/v1/surveys/{survey['id']}/findings", params={"limit": 1}, headers=admin
         ).json()["total"]
+    sent = len(latencies)
     print(f"findings sent {sent}, stored {stored}, error answers {errors}")
-    print(f"requests per second: {sent / seconds:7.0f} ({seconds:.1f} s)")
+    print(
+        f"requests per second: {sent / seconds:7.0f} ({seconds:.1f} s); a save's latency "
+        f"p50 {percentile(latencies, 0.5) * 1000:.0f} ms, p99 "
+        f"{percentile(latencies, 0.99) * 1000:.0f} ms, max {max(latencies) * 1000:.0f} ms"
+    )

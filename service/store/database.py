@@ -5,10 +5,17 @@ every connection turns on WAL (readers never block the writer), foreign keys and
 busy timeout, and a writing transaction begins with BEGIN IMMEDIATE: it takes the
 write lock at its start, so two technicians saving at once queue for the lock
 instead of failing halfway with "database is locked". Reads begin deferred.
+
+Within one process, writers to SQLite also queue on a lock of their own before BEGIN
+IMMEDIATE: SQLite's busy handler waits by sleeping in steps of up to 100 ms, so sixteen
+threads polling for the file's lock saw waits of seconds (a save's p99 846 ms, its
+longest 2.1 s); queued in the process, a writer starts the moment the one before ends.
+Workers in other processes still meet at the file's lock.
 """
 
+import threading
 from collections.abc import Iterator
-from contextlib import contextmanager
+from contextlib import contextmanager, nullcontext
 from dataclasses import dataclass
 from importlib.resources import files
 from typing import Any
@@ -78,6 +85,7 @@ class Database:
         self._reader = sessionmaker(
             self.engine.execution_options(**{_READ_ONLY: True}), expire_on_commit=False
         )
+        self._sqlite_writers = threading.RLock()
 
     @classmethod
     def at(cls, database_url: str) -> "Database":
@@ -91,7 +99,8 @@ class Database:
     def writing(self, actor: Actor | None = None) -> Iterator[Session]:
         """A session whose work is one transaction: committed at the end, or rolled back.
         The audit trail names `actor` (default: the system) for what it writes."""
-        with self._writer.begin() as session:
+        queue = self._sqlite_writers if self.is_sqlite else nullcontext()
+        with queue, self._writer.begin() as session:
             if actor is not None:
                 session.info[ACTOR_KEY] = actor
             yield session
