@@ -8,6 +8,7 @@ import subprocess
 import sys
 import time
 from collections.abc import Callable, Iterator
+from pathlib import Path
 from typing import Any
 
 import httpx
@@ -31,6 +32,18 @@ def bearer_for(
         secret, _ = tokens.create_token(session, user, "benchmark")
     database.dispose()
     return {"Authorization": f"Bearer {secret}"}
+
+
+def fresh_sqlite(path: Path) -> str:
+    """The URL of an empty SQLite database at `path` (any earlier one and its WAL gone),
+    migrated."""
+    for suffix in ("", "-wal", "-shm"):
+        Path(f"{path}{suffix}").unlink(missing_ok=True)
+    url = f"sqlite:///{path}"
+    database = Database.at(url)
+    database.upgrade()
+    database.dispose()
+    return url
 
 
 def heading(title: str) -> None:

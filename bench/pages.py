@@ -6,7 +6,7 @@ from pathlib import Path
 from fastapi.testclient import TestClient
 from sqlalchemy import select
 
-from bench.common import bearer_for, heading
+from bench.common import bearer_for, fresh_sqlite, heading
 from bench.scale import build_site
 from service.store.database import Database
 from service.store.demo import load_demo
@@ -27,11 +27,8 @@ def _best_seconds(client: TestClient, path: str, repeats: int = 3) -> tuple[floa
 
 def run(tmp: Path) -> None:
     heading("pages: the summary page against the summary API, 20,000 traps (in process)")
-    path = tmp / "pages.db"
-    for suffix in ("", "-wal", "-shm"):
-        Path(f"{path}{suffix}").unlink(missing_ok=True)
-    database = Database.at(f"sqlite:///{path}")
-    database.upgrade()
+    url = fresh_sqlite(tmp / "pages.db")
+    database = Database.at(url)
     with database.writing() as session:
         load_demo(session=session)  # only into an empty database: before the large site
     build_site(database, "Generated 20000", 20_000)
@@ -43,7 +40,7 @@ def run(tmp: Path) -> None:
         demo = session.scalar(select(Site.id).where(Site.name == "Wrenfield Board Mill"))
         survey = session.scalar(select(Survey.id).where(Survey.site_id == demo))
         trap = session.scalar(select(Trap.id).where(Trap.site_id == demo).order_by(Trap.id))
-    headers = bearer_for(f"sqlite:///{path}", "bench-admin", Role.ADMIN)
+    headers = bearer_for(url, "bench-admin", Role.ADMIN)
     with TestClient(create_app(database), headers=headers) as client:
         api_seconds, api_bytes = _best_seconds(client, f"/api/v1/sites/{big}/summary")
         cold_seconds, _ = _best_seconds(client, f"/sites/{big}/summary", repeats=1)

@@ -12,7 +12,7 @@ import time
 from collections.abc import Callable
 from pathlib import Path
 
-from bench import api_load, pages, physics, reliability, scale, walk, workers
+from bench import api_load, pages, physics, reliability, scale, viewers, walk, workers
 
 BENCHMARKS: dict[str, Callable[[Path], None]] = {
     "physics": lambda tmp: physics.run(),
@@ -21,6 +21,7 @@ BENCHMARKS: dict[str, Callable[[Path], None]] = {
     "writers": scale.run_writers,
     "pages": pages.run,
     "walk": walk.run,
+    "viewers": viewers.run,
     "workers": workers.run,
     "reliability": reliability.run,
 }

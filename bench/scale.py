@@ -12,7 +12,7 @@ from typing import Any
 
 import httpx
 
-from bench.common import bearer_for, heading, percentile, served
+from bench.common import bearer_for, fresh_sqlite, heading, percentile, served
 from bench.plant import Shape, generated_traps
 from service.reports.schemas import SummaryOut
 from service.reports.summary import site_summary, summary_rows
@@ -152,11 +152,8 @@ def _summary_timings(database: Database, name: str) -> dict[str, float]:
 
 def run(tmp: Path) -> None:
     heading("scale: generated sites, 2,000 and 20,000 traps, three surveys each (SQLite)")
-    path = tmp / "scale.db"
-    for suffix in ("", "-wal", "-shm"):
-        Path(f"{path}{suffix}").unlink(missing_ok=True)
-    database = Database.at(f"sqlite:///{path}")
-    database.upgrade()
+    url = fresh_sqlite(tmp / "scale.db")
+    database = Database.at(url)
     timings = {}
     for traps in (2_000, 20_000):
         name = f"Generated {traps}"
@@ -218,10 +215,7 @@ def run_writers(tmp: Path) -> None:
         f"writers: {WRITERS} technicians recording {EACH} findings each at once "
         "(SQLite, over HTTP, one worker)"
     )
-    path = tmp / "writers.db"
-    for suffix in ("", "-wal", "-shm"):
-        Path(f"{path}{suffix}").unlink(missing_ok=True)
-    url = f"sqlite:///{path}"
+    url = fresh_sqlite(tmp / "writers.db")
     admin = bearer_for(url, "bench-admin", Role.ADMIN)
     with served(url) as base:
         site = httpx.post(

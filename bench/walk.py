@@ -10,7 +10,7 @@ from pathlib import Path
 from fastapi.testclient import TestClient
 from sqlalchemy import select
 
-from bench.common import bearer_for, heading
+from bench.common import bearer_for, fresh_sqlite, heading
 from bench.scale import findings_file, register_file
 from service.store import imports, register, surveys
 from service.store.database import Database
@@ -66,13 +66,10 @@ def _figures(client: TestClient, path: str) -> str:
 
 def run(tmp: Path) -> None:
     heading("walk: the route and the finding form by site size (SQLite, in process)")
-    path = tmp / "walk.db"
-    for suffix in ("", "-wal", "-shm"):
-        Path(f"{path}{suffix}").unlink(missing_ok=True)
-    database = Database.at(f"sqlite:///{path}")
-    database.upgrade()
+    url = fresh_sqlite(tmp / "walk.db")
+    database = Database.at(url)
     rounds = {traps: _site_in_progress(database, traps) for traps in SIZES}
-    headers = bearer_for(f"sqlite:///{path}", "bench-admin", Role.ADMIN)
+    headers = bearer_for(url, "bench-admin", Role.ADMIN)
     with TestClient(create_app(database), headers=headers) as client:
         for traps, (_, survey, middle) in rounds.items():
             walk = f"/surveys/{survey}/walk"

@@ -28,6 +28,7 @@ from sqlalchemy import Engine, create_engine, event
 from sqlalchemy.engine import Connection
 from sqlalchemy.orm import Session, sessionmaker
 
+from service.store.access_changes import AccessChanges
 from service.store.audit import ACTOR_KEY, Actor, write_audit_entries
 from service.store.revisions import bump_revisions
 
@@ -82,6 +83,10 @@ class Database:
         self._writer = sessionmaker(self.engine, expire_on_commit=False)
         event.listen(self._writer, "after_flush", bump_revisions)
         event.listen(self._writer, "after_flush", write_audit_entries)
+        self.access_changes = AccessChanges()
+        event.listen(self._writer, "after_flush", self.access_changes.note_flush)
+        event.listen(self._writer, "do_orm_execute", self.access_changes.note_statement)
+        event.listen(self._writer, "after_commit", self.access_changes.after_commit)
         self._reader = sessionmaker(
             self.engine.execution_options(**{_READ_ONLY: True}), expire_on_commit=False
         )

@@ -41,6 +41,7 @@ from service.store.models import (
 )
 from service.store.records import get, site_id_of
 from service.web.dependencies import Db, record_id
+from service.web.viewer_cache import ViewerCache
 
 T = TypeVar("T")
 
@@ -135,9 +136,15 @@ def signed_in(request: Request, db: Db) -> Viewer | None:
     token = _bearer_secret(request)
     cookie = request.cookies.get(session_cookie_name(request))
     if token is not None:
-        with db.reading() as session:
-            user = token_user(session, token)
-            viewer = Viewer.of(user) if user is not None else None
+        kept: ViewerCache[Viewer] = request.app.state.viewers
+        viewer = kept.get(token)
+        if viewer is None:
+            generation = db.access_changes.generation
+            with db.reading() as session:
+                user = token_user(session, token)
+                viewer = Viewer.of(user) if user is not None else None
+            if viewer is not None:
+                kept.keep(token, generation, viewer)
     elif cookie:
         now = dt.datetime.now(dt.UTC)
         limits = settings(request)

@@ -16,7 +16,7 @@ from service.shipped import STATIC
 from service.store.database import Database
 from service.store.errors import ConflictError, FieldError, NotFoundError
 from service.web import errors, pages
-from service.web.access import CsrfRefused, NotPermitted, NotSignedIn
+from service.web.access import CsrfRefused, NotPermitted, NotSignedIn, Viewer
 from service.web.api import (
     areas,
     calc,
@@ -35,6 +35,7 @@ from service.web.compression import Compressed
 from service.web.headers import SecurityHeaders
 from service.web.request_log import RequestLog
 from service.web.static import FingerprintedStatic
+from service.web.viewer_cache import ViewerCache
 
 # Smaller answers gain nothing from compression (a header costs about as much).
 GZIP_MINIMUM_BYTES = 1000
@@ -92,6 +93,7 @@ def create_app(database: Database | None = None, settings: Settings | None = Non
     )
     app.state.database = store
     app.state.rollups = RollupCache()
+    app.state.viewers = ViewerCache[Viewer](store.access_changes)
     app.state.settings = settings
     app.state.photo_folder = settings.photo_folder(
         store.engine.url.render_as_string(hide_password=False)
