@@ -9,7 +9,7 @@ from pathlib import Path
 from fastapi.testclient import TestClient
 
 from bench.common import bearer_for, heading
-from bench.scale import build_site, site_id_named
+from bench.scale import build_site
 from service.reports.reliability import site_reliability
 from service.reports.summary import site_summary
 from service.store import surveys
@@ -28,9 +28,8 @@ def run(tmp: Path) -> None:
     database = Database.at(f"sqlite:///{path}")
     database.upgrade()
     started = time.perf_counter()
-    build_site(database, "Reliability Works", TRAPS, YEARS)
+    site_id = build_site(database, "Reliability Works", TRAPS, years=YEARS)
     print(f"built in           : {time.perf_counter() - started:9.1f} s")
-    site_id = site_id_named(database, "Reliability Works")
     with database.reading() as session:
         site = session.get_one(Site, site_id)
         latest = site_summary(

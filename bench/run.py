@@ -17,6 +17,7 @@ from bench import api_load, pages, physics, reliability, scale, viewers, walk, w
 BENCHMARKS: dict[str, Callable[[Path], None]] = {
     "physics": lambda tmp: physics.run(),
     "api": api_load.run,
+    "import": scale.run_import,
     "scale": scale.run,
     "writers": scale.run_writers,
     "pages": pages.run,

@@ -124,30 +124,10 @@ def _site_ids(session: Session, trap_ids: set[int]) -> dict[int, int]:
     return dict(rows.all())
 
 
-def _entry(
-    session: Session,
-    action: str,
-    record_type: str,
-    record_id: int,
-    site_id: int | None,
-    trap_id: int | None,
-    old: dict[str, Any] | None,
-    new: dict[str, Any] | None,
-) -> dict[str, Any]:
-    """One audit entry's columns, by the session's actor, now."""
+def _who_and_when(session: Session) -> dict[str, Any]:
+    """The columns every entry of one write shares: the session's actor, and now."""
     actor: Actor = session.info.get(ACTOR_KEY, SYSTEM)
-    return {
-        "at": dt.datetime.now(dt.UTC),
-        "actor_user_id": actor.user_id,
-        "actor_name": actor.name,
-        "action": action,
-        "record_type": record_type,
-        "record_id": record_id,
-        "site_id": site_id,
-        "trap_id": trap_id,
-        "old_values": old,
-        "new_values": new,
-    }
+    return {"at": dt.datetime.now(dt.UTC), "actor_user_id": actor.user_id, "actor_name": actor.name}
 
 
 def write_created_entries(
@@ -161,17 +141,18 @@ def write_created_entries(
         for attribute in inspect(model).column_attrs
         if attribute.key not in _NOT_COPIED and attribute.key not in _SECRET
     ]
+    shared = _who_and_when(session)
     entries = [
-        _entry(
-            session,
-            "created",
-            AUDITED[model],
-            row["id"],
-            site_id,
-            row["id"] if model is Trap else row.get("trap_id"),
-            None,
-            {key: _plain(row[key]) for key in keys},
-        )
+        {
+            **shared,
+            "action": "created",
+            "record_type": AUDITED[model],
+            "record_id": row["id"],
+            "site_id": site_id,
+            "trap_id": row["id"] if model is Trap else row.get("trap_id"),
+            "old_values": None,
+            "new_values": {key: _plain(row[key]) for key in keys},
+        }
         for row in rows
     ]
     if entries:
@@ -191,6 +172,7 @@ def write_audit_entries(session: Session, _flush_context: Any) -> None:
     trap_sites = _site_ids(
         session, {trap for _, record in touched if (trap := _trap_id(record)) is not None}
     )
+    shared = _who_and_when(session)
     entries = []
     for action, record in touched:
         if action == "created":
@@ -208,7 +190,16 @@ def write_audit_entries(session: Session, _flush_context: Any) -> None:
             else getattr(record, "site_id", None) or trap_sites.get(trap_id or 0)
         )
         entries.append(
-            _entry(session, action, AUDITED[type(record)], record.id, site_id, trap_id, old, new)
+            {
+                **shared,
+                "action": action,
+                "record_type": AUDITED[type(record)],
+                "record_id": record.id,
+                "site_id": site_id,
+                "trap_id": trap_id,
+                "old_values": old,
+                "new_values": new,
+            }
         )
     if entries:
         session.connection().execute(insert(AuditEntry), entries)

@@ -1,5 +1,5 @@
 """Many new records of one kind at once, as an import writes them: inserted through
-SQLAlchemy Core in batches (SQLAlchemy's "insertmanyvalues": one statement for many rows), with
+SQLAlchemy Core in batches (one statement for many rows), with
 their audit entries and the site's revision written from the rows in hand, as a flush of
 the same records would write them, in the same transaction.
 
@@ -9,7 +9,7 @@ objects one by one; this is the path `service.store.imports` takes for new recor
 
 from typing import Any
 
-from sqlalchemy import insert, inspect
+from sqlalchemy import Table, func, insert, inspect, select
 from sqlalchemy.orm import Session
 
 from service.store import audit, revisions
@@ -33,23 +33,43 @@ def column_defaults(model: type[Any]) -> dict[str, Any]:
     return defaults
 
 
+def _ids_in_order(session: Session, table: Table, complete: list[dict[str, Any]]) -> list[int]:
+    """Insert the rows and return their ids in the rows' order.
+
+    PostgreSQL numbers the rows of one INSERT from its sequence in the order asked, which
+    SQLAlchemy's batched RETURNING with `sort_by_parameter_order` relies on. SQLite sends
+    such a RETURNING row by row; but its writer holds the file's lock from BEGIN
+    IMMEDIATE, and a table without AUTOINCREMENT numbers each new row one past the
+    largest id (SQLite, "ROWIDs and the INTEGER PRIMARY KEY"): the ids are the next ones
+    in order, which is checked after the insert.
+    """
+    connection = session.connection()
+    if connection.dialect.name != "sqlite":
+        inserted = connection.execute(
+            insert(table).returning(table.c.id, sort_by_parameter_order=True), complete
+        )
+        return list(inserted.scalars())
+    before = connection.scalar(select(func.max(table.c.id))) or 0
+    connection.execute(insert(table), complete)
+    after = connection.scalar(select(func.max(table.c.id))) or 0
+    if after != before + len(complete):
+        raise RuntimeError(f"{table.name}: new ids not numbered in order; nothing is kept")
+    return list(range(before + 1, after + 1))
+
+
 def insert_audited(
     session: Session, model: type[Any], rows: list[dict[str, Any]], site_id: int
 ) -> list[int]:
     """Insert new records of `model` (one dict of column values each, for one site) and
-    write their audit entries and the site's new revision. Returns their ids, in the
-    order the database answered."""
+    write their audit entries, from the rows in hand, and the site's new revision.
+    Returns their ids in the rows' order."""
     if not rows:
         return []
-    table = inspect(model).local_table
-    # Every column returned, so each entry is written from its own row whatever order the
-    # database answers in (asking SQLite for the parameters' order sends rows one by one).
     defaults = column_defaults(model)
-    inserted = session.connection().execute(
-        insert(table).returning(*table.c), [{**defaults, **row} for row in rows]
-    )
-    columns = list(inserted.keys())
-    stored = [dict(zip(columns, row, strict=True)) for row in inserted]
-    audit.write_created_entries(session, model, stored, site_id)
+    complete = [{**defaults, **row} for row in rows]
+    ids = _ids_in_order(session, inspect(model).local_table, complete)
+    for row, record_id in zip(complete, ids, strict=True):
+        row["id"] = record_id
+    audit.write_created_entries(session, model, complete, site_id)
     revisions.bump_sites(session, {site_id})
-    return [row["id"] for row in stored]
+    return ids

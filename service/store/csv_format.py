@@ -10,6 +10,7 @@ spreadsheet shows them: the header is row 1, the first record row 2.
 import csv
 import io
 import re
+from collections.abc import Iterable, Iterator
 from dataclasses import dataclass, field
 
 from service.physics.units import convert
@@ -228,21 +229,33 @@ def as_typed(text: str) -> str:
     return unmarked if could_run_as_formula(unmarked) else text
 
 
-def write_table(header: list[str], rows: list[list[object]]) -> str:
-    """CSV text (comma-separated, CRLF line ends as RFC 4180) of a header and its rows,
-    its text safe to open in a spreadsheet (`spreadsheet_text`); numbers stay numbers.
-
-    >>> write_table(["tag", "notes"], [["F-1", "=1+1"]])
-    "tag,notes\\r\\nF-1,'=1+1\\r\\n"
-    """
+def csv_chunks(
+    header: list[str], rows: Iterable[list[object]], rows_per_chunk: int = 1000
+) -> Iterator[str]:
+    """CSV text (comma-separated, CRLF line ends as RFC 4180) of a header and its rows, a
+    chunk of `rows_per_chunk` rows at a time, its text safe to open in a spreadsheet
+    (`spreadsheet_text`); numbers stay numbers."""
     out = io.StringIO()
     writer = csv.writer(out)
     writer.writerow(header)
-    for row in rows:
+    for number, row in enumerate(rows, start=1):
         writer.writerow(
             [
                 "" if cell is None else spreadsheet_text(cell) if isinstance(cell, str) else cell
                 for cell in row
             ]
         )
-    return out.getvalue()
+        if number % rows_per_chunk == 0:
+            yield out.getvalue()
+            out.seek(0)
+            out.truncate()
+    yield out.getvalue()
+
+
+def write_table(header: list[str], rows: Iterable[list[object]]) -> str:
+    """The whole of `csv_chunks` as one text.
+
+    >>> write_table(["tag", "notes"], [["F-1", "=1+1"]])
+    "tag,notes\\r\\nF-1,'=1+1\\r\\n"
+    """
+    return "".join(csv_chunks(header, rows))

@@ -1,18 +1,21 @@
 """CSV exports of the register, a survey's findings and a site's repairs.
 
 Each is written in the columns `imports.py` reads, in the program's own units, so an
-exported file imports back to the same records.
+exported file imports back to the same records. Rows are read a thousand at a time and
+handed on as they come (`csv_format.csv_chunks`), so the web layer streams a file of
+any size without holding it.
 """
 
 import datetime as dt
-from collections.abc import Iterable
+from collections.abc import Iterator
+from typing import Any
 
-from sqlalchemy import select
+from sqlalchemy import Select, select
 from sqlalchemy.orm import Session
 
 from service.store.csv_format import write_table
 from service.store.imports import FINDINGS, REGISTER, REPAIRS, ImportFormat
-from service.store.models import Area, Finding, Repair, Site, Survey, Trap
+from service.store.models import Area, Finding, Repair, Trap
 from service.store.register import ROUTE_ORDER
 
 
@@ -55,48 +58,52 @@ def _cell(value: object) -> object:
     return value
 
 
-Table = tuple[list[str], list[list[object]]]
+ROWS_PER_FETCH = 1000
 
 
-def _table(spec: ImportFormat, rows: Iterable[tuple[object, object]], joined: str) -> Table:
-    """Records with one joined value each (a trap's area name, a record's trap tag)."""
+def _rows(
+    session: Session, spec: ImportFormat, query: Select[Any, str], joined: str
+) -> tuple[list[str], Iterator[list[object]]]:
+    """The file's columns, and its rows read by SQLAlchemy Core a thousand at a time
+    (no ORM objects): each column of `query`'s model by the header's name, the joined
+    value (a trap's area name, a record's trap tag) labelled `joined`."""
     headers = _headers(spec)
-    lines = [
-        [_cell(value if name == joined else getattr(record, name)) for name in headers]
-        for record, value in rows
+    model = query.column_descriptions[0]["entity"]
+    columns = [
+        query.selected_columns[joined] if name == joined else getattr(model, name)
+        for name in headers
     ]
-    return headers, lines
+    result = session.execute(
+        query.with_only_columns(*columns).execution_options(yield_per=ROWS_PER_FETCH)
+    )
+    return headers, ([_cell(value) for value in row] for row in result)
 
 
-def register_csv(*, session: Session, site: Site) -> str:
-    rows = session.execute(
-        select(Trap, Area.name)
+def register_rows(*, session: Session, site_id: int) -> tuple[list[str], Iterator[list[object]]]:
+    query = (
+        select(Trap, Area.name.label("area"))
         .outerjoin(Area, Area.id == Trap.area_id)
-        .where(Trap.site_id == site.id)
+        .where(Trap.site_id == site_id)
         .order_by(*ROUTE_ORDER)
     )
-    return write_table(*_table(REGISTER, rows, "area"))
+    return _rows(session, REGISTER, query, "area")
 
 
-def findings_table(*, session: Session, survey: Survey) -> Table:
-    rows = session.execute(
-        select(Finding, Trap.tag)
+def findings_rows(*, session: Session, survey_id: int) -> tuple[list[str], Iterator[list[object]]]:
+    query = (
+        select(Finding, Trap.tag.label("tag"))
         .join(Trap, Trap.id == Finding.trap_id)
-        .where(Finding.survey_id == survey.id)
+        .where(Finding.survey_id == survey_id)
         .order_by(Finding.tested_at, Finding.id)
     )
-    return _table(FINDINGS, rows, "tag")
+    return _rows(session, FINDINGS, query, "tag")
 
 
-def findings_csv(*, session: Session, survey: Survey) -> str:
-    return write_table(*findings_table(session=session, survey=survey))
-
-
-def repairs_csv(*, session: Session, site: Site) -> str:
-    rows = session.execute(
-        select(Repair, Trap.tag)
+def repairs_rows(*, session: Session, site_id: int) -> tuple[list[str], Iterator[list[object]]]:
+    query = (
+        select(Repair, Trap.tag.label("tag"))
         .join(Trap, Trap.id == Repair.trap_id)
-        .where(Trap.site_id == site.id)
+        .where(Trap.site_id == site_id)
         .order_by(Repair.repaired_on, Repair.id)
     )
-    return write_table(*_table(REPAIRS, rows, "tag"))
+    return _rows(session, REPAIRS, query, "tag")

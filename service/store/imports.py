@@ -21,6 +21,7 @@ from sqlalchemy import select
 from sqlalchemy.orm import Session
 
 from service.store import bulk, register, surveys
+from service.store.collection import fewer_collections
 from service.store.csv_format import (
     Problem,
     Table,
@@ -281,6 +282,7 @@ def _validated(
         return None
 
 
+@fewer_collections()
 def _plan(
     content: bytes,
     spec: ImportFormat,
@@ -387,6 +389,7 @@ def _area_ids(session: Session, site: Site, names: set[str]) -> dict[str, int]:
     return {name: areas[name.lower()].id for name in names}
 
 
+@fewer_collections()
 def apply_register(*, session: Session, site: Site, plan: ImportPlan[TrapCreate]) -> None:
     """Write a ready register plan: new traps created, known tags updated, areas made."""
     if not plan.ready:
@@ -430,6 +433,7 @@ def _trap_of(
     return traps[tag.lower()]
 
 
+@fewer_collections()
 def _apply(
     session: Session,
     plan: ImportPlan[Any],

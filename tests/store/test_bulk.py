@@ -119,3 +119,16 @@ def test_each_import_raises_the_site_revision(api: TestClient, store: Database) 
         before = revision()
         _import(api, path, content)
         assert revision() > before, path
+
+
+def test_an_import_raises_the_collectors_threshold_only_while_it_runs() -> None:
+    import gc
+
+    from service.store.collection import YOUNG_OBJECTS_DURING_IMPORT, fewer_collections
+
+    before = gc.get_threshold()
+    with fewer_collections():
+        with fewer_collections():  # two imports at once in one process
+            assert gc.get_threshold()[0] == YOUNG_OBJECTS_DURING_IMPORT
+        assert gc.get_threshold()[0] == YOUNG_OBJECTS_DURING_IMPORT
+    assert gc.get_threshold() == before

@@ -17,6 +17,7 @@ from service.store.csv_format import MAX_CSV_BYTES
 from service.store.database import Database
 from service.store.models import Site, Survey
 from service.store.surveys import chosen_survey
+from service.web import files
 from service.web.access import Managing, Reading
 from service.web.dependencies import Db, OptionalRecordIdQuery, RecordId
 from service.web.rollups import summary_for
@@ -221,14 +222,6 @@ async def import_repairs(
     return await _import(request, db, viewer.actor, commit, plan, apply)
 
 
-def _csv_response(text: str, filename: str) -> Response:
-    return Response(
-        content=text,
-        media_type="text/csv; charset=utf-8",
-        headers={"Content-Disposition": f'attachment; filename="{filename}"'},
-    )
-
-
 CSV_RESPONSE: dict[int | str, dict[str, Any]] = {
     200: {"content": {"text/csv": {"schema": {"type": "string"}}}}
 }
@@ -242,8 +235,10 @@ CSV_RESPONSE: dict[int | str, dict[str, Any]] = {
 )
 def export_register(site_id: RecordId, db: Db, viewer: Reading) -> Response:
     with db.reading() as session:
-        site = viewer.get(session, Site, site_id)
-        return _csv_response(exports.register_csv(session=session, site=site), "register.csv")
+        viewer.get(session, Site, site_id)
+    return files.streamed_csv(
+        db, lambda session: exports.register_rows(session=session, site_id=site_id), "register.csv"
+    )
 
 
 @router.get(
@@ -254,8 +249,12 @@ def export_register(site_id: RecordId, db: Db, viewer: Reading) -> Response:
 )
 def export_findings(survey_id: RecordId, db: Db, viewer: Reading) -> Response:
     with db.reading() as session:
-        survey = viewer.get(session, Survey, survey_id)
-        return _csv_response(exports.findings_csv(session=session, survey=survey), "findings.csv")
+        viewer.get(session, Survey, survey_id)
+    return files.streamed_csv(
+        db,
+        lambda session: exports.findings_rows(session=session, survey_id=survey_id),
+        "findings.csv",
+    )
 
 
 @router.get(
@@ -266,8 +265,10 @@ def export_findings(survey_id: RecordId, db: Db, viewer: Reading) -> Response:
 )
 def export_repairs(site_id: RecordId, db: Db, viewer: Reading) -> Response:
     with db.reading() as session:
-        site = viewer.get(session, Site, site_id)
-        return _csv_response(exports.repairs_csv(session=session, site=site), "repairs.csv")
+        viewer.get(session, Site, site_id)
+    return files.streamed_csv(
+        db, lambda session: exports.repairs_rows(session=session, site_id=site_id), "repairs.csv"
+    )
 
 
 @router.get(
@@ -287,4 +288,4 @@ def export_repair_list(
         site = viewer.get(session, Site, site_id)
         survey = chosen_survey(session=session, site=site, survey_id=survey_id)
         summary = SummaryOut.of(summary_for(request, session, site, survey))
-    return _csv_response(repair_list_csv(summary), "repair-list.csv")
+    return files.download(repair_list_csv(summary), "repair-list.csv", files.CSV)
