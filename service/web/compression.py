@@ -17,7 +17,10 @@ _outer_send: ContextVar[Send | None] = ContextVar("outer_send", default=None)
 class Compressed:
     def __init__(self, app: ASGIApp, minimum_size: int) -> None:
         self.app = app
-        self.gzip = GZipMiddleware(self._inner, minimum_size=minimum_size)
+        # Level 6, zlib's own default: half the time of Starlette's 9 for a few per cent
+        # more bytes (the 24 MB summary of 100,000 traps: 0.24 s and 3.3 MB, not 0.46 s
+        # and 3.1 MB).
+        self.gzip = GZipMiddleware(self._inner, minimum_size=minimum_size, compresslevel=6)
 
     async def __call__(self, scope: Scope, receive: Receive, send: Send) -> None:
         if DEBUG_MESSAGE not in scope.get("extensions", {}):

@@ -9,6 +9,7 @@ from sqlalchemy.orm import Session
 from service.reports.cache import RollupCache
 from service.reports.pricing import SitePricing
 from service.reports.reliability import SiteReliability, next_round_default, site_reliability
+from service.reports.schemas import SummaryOut
 from service.reports.summary import SiteSummary, site_summary
 from service.reports.trends import RoundTrend, site_trends
 from service.store import surveys
@@ -34,6 +35,18 @@ def summary_for(
         return site_summary(session=session, site=site, survey=None, pricing=pricing)
     cache: RollupCache = request.app.state.rollups
     return cache.summary(session=session, site=site, survey=survey, pricing=pricing)
+
+
+def summary_json_for(
+    request: Request, session: Session, site: Site, survey: Survey | None
+) -> bytes:
+    """`summary_for` as the API's JSON, encoded once while the summary holds."""
+    if survey is None:
+        return SummaryOut.of(summary_for(request, session, site, None)).model_dump_json().encode()
+    cache: RollupCache = request.app.state.rollups
+    return cache.summary_json(
+        session=session, site=site, survey=survey, pricing=SitePricing.of(site)
+    )
 
 
 def reliability_for(
