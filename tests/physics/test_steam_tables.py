@@ -231,3 +231,22 @@ def test_above_region_3_saturation_still_comes_from_iapws97() -> None:
     ours = steam_tables.saturation_at_pressure(20_000.0)
     assert ours.hf_kj_kg == IAPWS97(P=20.0, x=0.0).h
     assert ours.hg_kj_kg == IAPWS97(P=20.0, x=1.0).h
+
+
+def test_lookups_from_many_threads_agree_with_one_thread() -> None:
+    # The server answers requests on a pool of threads; each keeps its own CoolProp state.
+    # A switch between threads every microsecond makes a shared state's race show.
+    import sys
+    from concurrent.futures import ThreadPoolExecutor
+
+    uncached = steam_tables.saturation_at_pressure.__wrapped__
+    pressures = [_WET_PRESSURES_KPA[index] for index in range(0, 200, 2)]
+    alone = [uncached(pressure) for pressure in pressures]
+    interval = sys.getswitchinterval()
+    sys.setswitchinterval(1e-6)
+    try:
+        with ThreadPoolExecutor(max_workers=8) as pool:
+            together = list(pool.map(lambda _: [uncached(p) for p in pressures], range(16)))
+    finally:
+        sys.setswitchinterval(interval)
+    assert all(answers == alone for answers in together)
