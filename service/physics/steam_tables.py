@@ -9,10 +9,11 @@ Lookups the cache misses (a site where every trap has its own pressure misses th
 go, up to 16.529 MPa (the saturation pressure at 623.15 K, where region 3 begins), to
 CoolProp's IF97 backend, a C++ implementation of the same release about a hundred times
 faster than `IAPWS97`: saturation states and single-phase states at (p, T) from regions 1
-and 2, and wet steam mixed from the saturation states as `IAPWS97(P, s)` mixes it. A test
-holds each to `IAPWS97` over the range (within 1e-8 relative, 1e-6 asked). Above 16.529
-MPa, and for the backward equations T(p, h) and T(p, s) of single-phase states, which
-`IAPWS97` refines by Newton iteration and CoolProp's backend does not, `IAPWS97` answers.
+and 2; wet steam mixed from the saturation states as `IAPWS97` mixes it; and superheated
+steam at (p, h) or (p, s), CoolProp's backward equation refined by Newton's method on the
+forward one, as `IAPWS97` refines its own (CoolProp's backend does not). Tests hold each
+to `IAPWS97` over the range (within 1e-8 relative; 1e-6 was asked). Above 16.529 MPa, and
+for compressed water at (p, h) or (p, s), `IAPWS97` answers.
 
 Units here and in every caller: pressure kPa absolute, temperature degC, specific
 enthalpy kJ/kg, specific entropy kJ/(kg K), specific volume m3/kg.
@@ -186,9 +187,9 @@ def saturation_at_pressure(pressure_kpa_abs: float) -> Saturation:
     (179.886, 762.68, 2777.12)
     """
     require_saturation_pressure(pressure_kpa_abs)
-    pressure_mpa = pressure_kpa_abs / 1000.0
     if pressure_kpa_abs <= REGION_3_SATURATION_PRESSURE_KPA:
         return _saturation_by_coolprop(pressure_kpa_abs)
+    pressure_mpa = pressure_kpa_abs / 1000.0
     return _saturation(_evaluate(P=pressure_mpa, x=0.0), _evaluate(P=pressure_mpa, x=1.0))
 
 

@@ -56,7 +56,6 @@ class Progress:
 
     total: int
     done: int
-    not_accessible: int
     areas: list[str]  # in walking order, NO_AREA last where traps are unplaced
 
 
@@ -230,8 +229,8 @@ class RouteOf:
         return self._stops(traps_shown), sum(segment.traps for segment in chosen)
 
     def progress(self) -> Progress:
-        """Traps in service, how many have a finding in the round, how many were last
-        found not accessible, and the areas, in walking order."""
+        """Traps in service, how many have a finding in the round, and the areas, in
+        walking order."""
         out_of_service = select(Trap.id).where(
             Trap.site_id == self.survey.site_id, Trap.in_service.is_(False)
         )
@@ -244,9 +243,12 @@ class RouteOf:
         return Progress(
             total=sum(segment.traps for segment in self.segments),
             done=done,
-            not_accessible=len(self._not_accessible_ids(None)),
             areas=[segment.label for segment in self.segments],
         )
+
+    def not_accessible(self) -> int:
+        """How many traps in service were last found not accessible in the round."""
+        return len(self._not_accessible_ids(None))
 
     def _first(
         self, segment: Segment, where: ColumnElement[bool] | None, untested: bool

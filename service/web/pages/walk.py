@@ -71,7 +71,6 @@ def walk_for_offline(survey_id: RecordId, db: Db, viewer: Reading) -> dict[str, 
     each trap's form, in route order."""
     with db.reading() as session:
         survey = viewer.get(session, Survey, survey_id)
-        viewer.get(session, Site, survey.site_id)
         trap_ids = route.RouteOf(session, survey).trap_ids()
     walk_url = f"/surveys/{survey_id}/walk"
     return {"pages": [walk_url, *(f"{walk_url}/traps/{trap_id}" for trap_id in trap_ids)]}
@@ -119,7 +118,7 @@ def _walk_page(
         areas=so_far.areas,
         area=area or "",
         retest=retest,
-        not_accessible=so_far.not_accessible,
+        not_accessible=walked.not_accessible(),
         done=so_far.done,
         total=so_far.total,
         shown=shown,
