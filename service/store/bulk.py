@@ -1,7 +1,7 @@
 """Many new records of one kind at once, as an import writes them: inserted through
-SQLAlchemy Core in batches (one statement for many rows), with
-their audit entries and the site's revision written from the rows in hand, as a flush of
-the same records would write them, in the same transaction.
+SQLAlchemy Core in batches (one statement for many rows), with their audit entries and
+the site's revision written from the rows in hand, as a flush of the same records would
+write them, in the same transaction.
 
 A 20,000-trap register through the ORM spent most of its time building and flushing
 objects one by one; this is the path `service.store.imports` takes for new records.

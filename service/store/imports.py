@@ -397,11 +397,13 @@ def apply_register(*, session: Session, site: Site, plan: ImportPlan[TrapCreate]
     names = {row.cells.get("area", "") for row in plan.rows} - {""}
     area_ids = _area_ids(session, site, names)
     updated = {row.existing_id for row in plan.rows if row.existing_id is not None}
-    stored = {
-        trap.id: trap
-        for trap in session.scalars(select(Trap).where(Trap.id.in_(updated)))
+    # The site's traps are read only when the file updates some (by site, not by a list
+    # of ids: a list of 50,000 would pass SQLite's limit on parameters).
+    stored = (
+        {trap.id: trap for trap in session.scalars(select(Trap).where(Trap.site_id == site.id))}
         if updated
-    }
+        else {}
+    )
     created = []
     for row in plan.rows:
         values = row.data.model_dump()
