@@ -8,13 +8,13 @@ import time
 from pathlib import Path
 
 from fastapi.testclient import TestClient
-from sqlalchemy import select
+from sqlalchemy import select, update
 
 from bench.common import bearer_for, fresh_sqlite, heading
 from bench.scale import findings_file, register_file
 from service.store import imports, register, surveys
 from service.store.database import Database
-from service.store.models import Role, Site, Trap
+from service.store.models import Role, Trap
 from service.store.schemas import SiteCreate, SurveyCreate
 from service.web.app import create_app
 
@@ -72,12 +72,19 @@ def run(tmp: Path) -> None:
     headers = bearer_for(url, "bench-admin", Role.ADMIN)
     with TestClient(create_app(database), headers=headers) as client:
         for traps, (_, survey, middle) in rounds.items():
-            walk = f"/surveys/{survey}/walk"
-            print(f"{traps:7,d} traps, min / median / max:")
-            print(f"  route page, first 60      {_figures(client, walk)}")
-            print(f"  route page, halfway along {_figures(client, f'{walk}?offset={traps // 2}')}")
-            print(f"  test again list           {_figures(client, f'{walk}?retest=true')}")
-            print(f"  finding form, halfway     {_figures(client, f'{walk}/traps/{middle}')}")
-    with database.reading() as session:
-        assert session.scalar(select(Site.id).where(Site.name == "Walk 1000")) is not None
+            _print_walk(client, f"{traps:7,d} traps", survey, middle, traps)
+        # The largest site again with every trap out of its area: one area of 100,000.
+        site, survey, middle = rounds[SIZES[-1]]
+        with database.engine.begin() as connection:
+            connection.execute(update(Trap).where(Trap.site_id == site).values(area_id=None))
+        _print_walk(client, f"{SIZES[-1]:7,d} traps, no areas", survey, middle, SIZES[-1])
     database.dispose()
+
+
+def _print_walk(client: TestClient, label: str, survey: int, middle: int, traps: int) -> None:
+    walk = f"/surveys/{survey}/walk"
+    print(f"{label}, min / median / max:")
+    print(f"  route page, first 60      {_figures(client, walk)}")
+    print(f"  route page, halfway along {_figures(client, f'{walk}?offset={traps // 2}')}")
+    print(f"  test again list           {_figures(client, f'{walk}?retest=true')}")
+    print(f"  finding form, halfway     {_figures(client, f'{walk}/traps/{middle}')}")

@@ -160,8 +160,16 @@ class Trap(Base):
     __tablename__ = "traps"
     __table_args__ = (
         UniqueConstraint("site_id", "tag"),
-        # The walk counts a site's traps in service by area, and reads the unplaced ones.
-        Index("ix_traps_site_in_service_area", "site_id", "in_service", "area_id"),
+        # The walk counts a site's traps in service by area, and reads each area's traps
+        # in walking order from here (`store/route.py`).
+        Index(
+            "ix_traps_walking_order",
+            "site_id",
+            "in_service",
+            "area_id",
+            "route_position",
+            "tag",
+        ),
     )
 
     id: Mapped[int] = mapped_column(primary_key=True)

@@ -4,23 +4,27 @@ stands on the route, read by SQL a page at a time.
 
 `RouteOf(session, survey)` answers for one request. The route is cut into segments,
 one per area in walking order (`AREA_ORDER`) and the unplaced traps last, each counted
-once (an index holds traps in service by site and area). A page reads only the segments
-it spans, ordered within the area (`TRAP_ORDER_IN_AREA`): the cost of a page grows with
-the size of an area, not of the site. The order is `register.ROUTE_ORDER`'s on SQLite
-and PostgreSQL alike (a test holds every page to it).
+once; each segment into two lanes, the traps with a route position (by position, then
+tag) and those without (by tag), which is `TRAP_ORDER_IN_AREA` with its nulls last. An
+index holds traps in service by site, area, position and tag, so a lane is read in its
+order from the index: a page, the next trap to test and a trap's place cost about the
+same on a site of a thousand traps as on one of a hundred thousand, in areas of any
+size. The order is `register.ROUTE_ORDER`'s on SQLite and PostgreSQL alike (a test holds
+every page to it).
 """
 
-from collections.abc import Sequence
+from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
 from functools import cached_property
+from typing import Any
 
-from sqlalchemy import ColumnElement, Select, and_, exists, func, or_, select
-from sqlalchemy.orm import Session
+from sqlalchemy import ColumnElement, Select, exists, func, select, tuple_
+from sqlalchemy.orm import InstrumentedAttribute, Session
 
 from service.physics.conditions import TrapCondition
 from service.store.latest import is_latest_finding
 from service.store.models import Area, Finding, Survey, Trap
-from service.store.register import AREA_ORDER, ROUTE_ORDER, TRAP_ORDER_IN_AREA
+from service.store.register import AREA_ORDER, ROUTE_ORDER
 
 NO_AREA = "(no area)"
 
@@ -74,28 +78,38 @@ def _in_segment(site_id: int, segment: Segment) -> Select[Trap]:
     return query.where(Trap.area_id == segment.area_id)
 
 
-def _after(trap: Trap) -> ColumnElement[bool]:
-    """Traps of the same segment after `trap` in `TRAP_ORDER_IN_AREA` (unplaced last)."""
-    if trap.route_position is None:
-        return and_(Trap.route_position.is_(None), Trap.tag > trap.tag)
-    return or_(
-        Trap.route_position > trap.route_position,
-        and_(Trap.route_position == trap.route_position, Trap.tag > trap.tag),
-        Trap.route_position.is_(None),
-    )
+@dataclass(frozen=True, slots=True)
+class _Lane:
+    """Traps of a segment with a route position (`placed`) or without, and their order."""
+
+    placed: bool
+
+    def where(self) -> ColumnElement[bool]:
+        position = Trap.route_position
+        return position.is_not(None) if self.placed else position.is_(None)
+
+    def key(self) -> tuple[InstrumentedAttribute[Any], ...]:
+        return (Trap.route_position, Trap.tag) if self.placed else (Trap.tag,)
+
+    def key_of(self, trap: Trap) -> tuple[Any, ...]:
+        return (trap.route_position, trap.tag) if self.placed else (trap.tag,)
+
+    def after(self, trap: Trap) -> ColumnElement[bool]:
+        return tuple_(*self.key()) > tuple_(*self.key_of(trap))
+
+    def before(self, trap: Trap) -> ColumnElement[bool]:
+        return tuple_(*self.key()) < tuple_(*self.key_of(trap))
 
 
-def _before(trap: Trap) -> ColumnElement[bool]:
-    """Traps of the same segment before `trap` in `TRAP_ORDER_IN_AREA`."""
-    if trap.route_position is None:
-        return or_(
-            Trap.route_position.is_not(None),
-            and_(Trap.route_position.is_(None), Trap.tag < trap.tag),
-        )
-    return or_(
-        Trap.route_position < trap.route_position,
-        and_(Trap.route_position == trap.route_position, Trap.tag < trap.tag),
-    )
+LANES = (_Lane(placed=True), _Lane(placed=False))
+
+
+# A lane of a segment, and a condition on it (None: the whole lane).
+_Reading = tuple[Segment, _Lane, ColumnElement[bool] | None]
+
+
+def _lane_of(trap: Trap) -> int:
+    return 0 if trap.route_position is not None else 1
 
 
 def _stops(session: Session, survey_id: int, traps: Sequence[Trap]) -> list[Stop]:
@@ -198,6 +212,21 @@ class RouteOf:
             query = query.where(Area.name == area)
         return list(self.session.scalars(query))
 
+    def _lane(
+        self, segment: Segment, lane: _Lane, where: ColumnElement[bool] | None = None
+    ) -> Select[Trap]:
+        """The lane's traps in its order (read from the index in that order)."""
+        query = self._in(segment).where(lane.where())
+        if where is not None:
+            query = query.where(where)
+        return query.order_by(*lane.key())
+
+    def _count(self, query: Select[Trap]) -> int:
+        counted = self.session.scalar(
+            select(func.count()).select_from(query.order_by(None).subquery())
+        )
+        return counted or 0
+
     def page(
         self, *, area: str | None, retest: bool, offset: int, limit: int
     ) -> tuple[list[Stop], int]:
@@ -212,21 +241,24 @@ class RouteOf:
             }
             return self._stops([traps[trap_id] for trap_id in chosen_ids]), len(again)
         chosen = self._chosen(area)
-        traps_shown: list[Trap] = []
-        start = 0
+        shown: list[Trap] = []
+        skip = offset
         for segment in chosen:
-            end = start + segment.traps
-            if end > offset and start < offset + limit:
-                traps_shown.extend(
+            if skip >= segment.traps:
+                skip -= segment.traps
+                continue
+            for lane in LANES:
+                if len(shown) == limit:
+                    break
+                found = list(
                     self.session.scalars(
-                        self._in(segment)
-                        .order_by(*TRAP_ORDER_IN_AREA)
-                        .offset(max(0, offset - start))
-                        .limit(limit - len(traps_shown))
+                        self._lane(segment, lane).offset(skip).limit(limit - len(shown))
                     )
                 )
-            start = end
-        return self._stops(traps_shown), sum(segment.traps for segment in chosen)
+                # Past this lane's end nothing came back: how far past it is its length.
+                skip = max(0, skip - self._count(self._lane(segment, lane))) if not found else 0
+                shown.extend(found)
+        return self._stops(shown), sum(segment.traps for segment in chosen)
 
     def progress(self) -> Progress:
         """Traps in service, how many have a finding in the round, and the areas, in
@@ -250,16 +282,33 @@ class RouteOf:
         """How many traps in service were last found not accessible in the round."""
         return len(self._not_accessible_ids(None))
 
-    def _first(
-        self, segment: Segment, where: ColumnElement[bool] | None, untested: bool
-    ) -> Stop | None:
-        query = self._in(segment)
-        if untested:
-            query = query.where(_untested(self.survey.id))
-        if where is not None:
-            query = query.where(where)
-        trap = self.session.scalars(query.order_by(*TRAP_ORDER_IN_AREA).limit(1)).first()
-        return self._stops([trap])[0] if trap is not None else None
+    def _first(self, lanes: Iterable[_Reading], untested: bool) -> Stop | None:
+        """The first trap of the lanes, in their order (untested ones only, if asked)."""
+        for segment, lane, where in lanes:
+            query = self._lane(segment, lane, where)
+            if untested:
+                query = query.where(_untested(self.survey.id))
+            trap = self.session.scalars(query.limit(1)).first()
+            if trap is not None:
+                return self._stops([trap])[0]
+        return None
+
+    @staticmethod
+    def _whole(segments: Iterable[Segment]) -> list[_Reading]:
+        return [(segment, lane, None) for segment in segments for lane in LANES]
+
+    @staticmethod
+    def _after(segment: Segment, trap: Trap) -> list[_Reading]:
+        """The segment's lanes after `trap`: the rest of its own lane, then the later lane."""
+        here = _lane_of(trap)
+        later = [(segment, lane, None) for lane in LANES[here + 1 :]]
+        return [(segment, LANES[here], LANES[here].after(trap)), *later]
+
+    @staticmethod
+    def _before(segment: Segment, trap: Trap) -> list[_Reading]:
+        here = _lane_of(trap)
+        earlier = [(segment, lane, None) for lane in LANES[:here]]
+        return [*earlier, (segment, LANES[here], LANES[here].before(trap))]
 
     def _index_of(self, segments: list[Segment], trap: Trap) -> int | None:
         return next(
@@ -272,19 +321,15 @@ class RouteOf:
         one area's), or after `after`, wrapping round to the start."""
         chosen = self._chosen(area)
         here = self._index_of(chosen, after) if after is not None and after.in_service else None
-        order: list[tuple[Segment, ColumnElement[bool] | None]] = [(s, None) for s in chosen]
-        if after is not None and here is not None:
-            later = chosen[here + 1 :] + chosen[:here]
-            order = [
-                (chosen[here], _after(after)),
-                *((segment, None) for segment in later),
-                (chosen[here], _before(after)),
-            ]
-        for segment, where in order:
-            found = self._first(segment, where, untested=True)
-            if found is not None:
-                return found
-        return None
+        if after is None or here is None:
+            return self._first(self._whole(chosen), untested=True)
+        segment = chosen[here]
+        wrapped = [
+            *self._after(segment, after),
+            *self._whole(chosen[here + 1 :] + chosen[:here]),
+            *self._before(segment, after),
+        ]
+        return self._first(wrapped, untested=True)
 
     def place_of(self, trap: Trap) -> Place:
         """The trap's position on the route and the trap after it (in any condition)."""
@@ -292,26 +337,23 @@ class RouteOf:
         if here is None:
             return Place(position=None, following=None)
         segment = self.segments[here]
-        within = self.session.scalar(
-            select(func.count()).select_from(self._in(segment).where(_before(trap)).subquery())
+        position = sum(earlier.traps for earlier in self.segments[:here]) + sum(
+            self._count(self._lane(part, lane, where))
+            for part, lane, where in self._before(segment, trap)
         )
-        position = sum(earlier.traps for earlier in self.segments[:here]) + (within or 0)
-        candidates: list[tuple[Segment, ColumnElement[bool] | None]] = [(segment, _after(trap))]
-        candidates += [(later, None) for later in self.segments[here + 1 :]]
-        for candidate, where in candidates:
-            following = self._first(candidate, where, untested=False)
-            if following is not None:
-                return Place(position, following)
-        return Place(position, None)
+        following = self._first(
+            [*self._after(segment, trap), *self._whole(self.segments[here + 1 :])],
+            untested=False,
+        )
+        return Place(position, following)
 
     def trap_ids(self) -> list[int]:
         """Every trap in service, in walking order (what a tablet keeps for a round
         offline)."""
-        ids: list[int] = []
-        for segment in self.segments:
-            ids.extend(
-                self.session.scalars(
-                    self._in(segment).with_only_columns(Trap.id).order_by(*TRAP_ORDER_IN_AREA)
-                )
+        return [
+            trap_id
+            for segment, lane, _ in self._whole(self.segments)
+            for trap_id in self.session.scalars(
+                self._lane(segment, lane).with_only_columns(Trap.id)
             )
-        return ids
+        ]

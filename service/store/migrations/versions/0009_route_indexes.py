@@ -1,5 +1,5 @@
-"""Indexes for the walk's route: traps in service by site and area, and a round's
-findings by condition.
+"""Indexes for the walk's route: traps in service by site, area, position and tag (the
+walking order), and a round's findings by condition.
 
 Revision ID: 0009
 Revises: 0008
@@ -17,10 +17,14 @@ depends_on: str | Sequence[str] | None = None
 
 
 def upgrade() -> None:
-    op.create_index("ix_traps_site_in_service_area", "traps", ["site_id", "in_service", "area_id"])
+    op.create_index(
+        "ix_traps_walking_order",
+        "traps",
+        ["site_id", "in_service", "area_id", "route_position", "tag"],
+    )
     op.create_index("ix_findings_survey_condition", "findings", ["survey_id", "condition"])
 
 
 def downgrade() -> None:
     op.drop_index("ix_findings_survey_condition", table_name="findings")
-    op.drop_index("ix_traps_site_in_service_area", table_name="traps")
+    op.drop_index("ix_traps_walking_order", table_name="traps")
