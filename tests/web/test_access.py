@@ -34,6 +34,7 @@ R, C, M, A, PUBLIC, SIGNED_IN = "read", "record", "manage", "administer", "publi
 # the request got past sign-in, role and site checks without changing anything.
 TABLE: dict[tuple[str, str], tuple[str, bool, int]] = {
     ("GET", "/api/v1/health"): (PUBLIC, False, 200),
+    ("GET", "/api/v1/health/ready"): (PUBLIC, False, 200),
     ("GET", "/api/v1/session"): (R, False, 200),
     ("GET", "/surveys/walk-sw.js"): (PUBLIC, False, 200),
     ("GET", "/surveys/{survey_id}/walk/offline"): (R, True, 200),

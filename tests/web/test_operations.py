@@ -190,3 +190,22 @@ def test_db_backup_dumps_postgresql_for_pg_restore(
 def test_db_backup_says_why_it_cannot(tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> None:
     assert cli.main(["db", "backup", str(tmp_path / "x.db"), "--database-url", "sqlite://"]) == 1
     assert "in-memory" in capsys.readouterr().err
+
+
+def test_ready_when_the_database_answers_and_its_schema_is_current(api: TestClient) -> None:
+    answer = TestClient(api.app).get("/api/v1/health/ready")  # no sign-in: a load balancer
+    assert (answer.status_code, answer.json()) == (200, {"status": "ready", "database": "ok"})
+
+
+@pytest.mark.parametrize(
+    ("where", "state"),
+    [("missing-folder/traptally.db", "unreachable"), ("not-upgraded.db", "schema not current")],
+)
+def test_not_ready_says_which_and_answers_503(tmp_path: Path, where: str, state: str) -> None:
+    from service.web.app import create_app
+
+    with TestClient(create_app(Database.at(f"sqlite:///{tmp_path / where}"))) as client:
+        answer = client.get("/api/v1/health/ready")
+        assert answer.status_code == 503
+        assert answer.json() == {"status": "not ready", "database": state}
+        assert client.get("/api/v1/health").status_code == 200  # alive all the same
