@@ -151,19 +151,6 @@ def _evaluate(**inputs: float) -> IAPWS97:
     return state
 
 
-def _saturation(liquid: IAPWS97, vapour: IAPWS97) -> Saturation:
-    return Saturation(
-        pressure_kpa_abs=float(liquid.P) * 1000.0,
-        temperature_c=float(liquid.T) - KELVIN_AT_ZERO_C,
-        hf_kj_kg=float(liquid.h),
-        hg_kj_kg=float(vapour.h),
-        sf_kj_kg_k=float(liquid.s),
-        sg_kj_kg_k=float(vapour.s),
-        vf_m3_kg=float(liquid.v),
-        vg_m3_kg=float(vapour.v),
-    )
-
-
 def _properties(state: IAPWS97) -> Properties:
     two_phase = state.region == 4
     return Properties(
@@ -188,9 +175,16 @@ def saturation_at_pressure(pressure_kpa_abs: float) -> Saturation:
     """
     require_saturation_pressure(pressure_kpa_abs)
     if pressure_kpa_abs <= REGION_3_SATURATION_PRESSURE_KPA:
-        return _saturation_by_coolprop(pressure_kpa_abs)
+        pressure_pa = pressure_kpa_abs * 1000.0
+        return _saturation(
+            pressure_kpa_abs,
+            _coolprop_properties(PQ_INPUTS, pressure_pa, 0.0),
+            _coolprop_properties(PQ_INPUTS, pressure_pa, 1.0),
+        )
     pressure_mpa = pressure_kpa_abs / 1000.0
-    return _saturation(_evaluate(P=pressure_mpa, x=0.0), _evaluate(P=pressure_mpa, x=1.0))
+    return _saturation_from_iapws(
+        _evaluate(P=pressure_mpa, x=0.0), _evaluate(P=pressure_mpa, x=1.0)
+    )
 
 
 class _CoolPropIF97(threading.local):
@@ -216,10 +210,8 @@ def _coolprop_properties(inputs: input_pairs, first: float, second: float) -> Pr
     )
 
 
-def _saturation_by_coolprop(pressure_kpa_abs: float) -> Saturation:
-    """Saturated water and steam below region 3, from CoolProp's IF97 backend."""
-    liquid = _coolprop_properties(PQ_INPUTS, pressure_kpa_abs * 1000.0, 0.0)
-    vapour = _coolprop_properties(PQ_INPUTS, pressure_kpa_abs * 1000.0, 1.0)
+def _saturation(pressure_kpa_abs: float, liquid: Properties, vapour: Properties) -> Saturation:
+    """Saturated water and steam at one pressure [kPa abs], from either backend's states."""
     return Saturation(
         pressure_kpa_abs=pressure_kpa_abs,
         temperature_c=liquid.temperature_c,
@@ -232,6 +224,10 @@ def _saturation_by_coolprop(pressure_kpa_abs: float) -> Saturation:
     )
 
 
+def _saturation_from_iapws(liquid: IAPWS97, vapour: IAPWS97) -> Saturation:
+    return _saturation(float(liquid.P) * 1000.0, _properties(liquid), _properties(vapour))
+
+
 @lru_cache(maxsize=_CACHE_SIZE)
 def saturation_at_temperature(temperature_c: float) -> Saturation:
     """Saturation properties at a temperature [degC], 0.01 to 373.946 degC.
@@ -241,7 +237,9 @@ def saturation_at_temperature(temperature_c: float) -> Saturation:
     """
     require_saturation_temperature(temperature_c)
     temperature_k = temperature_c + KELVIN_AT_ZERO_C
-    return _saturation(_evaluate(T=temperature_k, x=0.0), _evaluate(T=temperature_k, x=1.0))
+    return _saturation_from_iapws(
+        _evaluate(T=temperature_k, x=0.0), _evaluate(T=temperature_k, x=1.0)
+    )
 
 
 def _wet_steam(saturation: Saturation, quality: float) -> Properties:

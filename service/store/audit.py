@@ -130,6 +130,29 @@ def _who_and_when(session: Session) -> dict[str, Any]:
     return {"at": dt.datetime.now(dt.UTC), "actor_user_id": actor.user_id, "actor_name": actor.name}
 
 
+def _entry(
+    shared: dict[str, Any],
+    action: str,
+    record_type: str,
+    record_id: int,
+    site_id: int | None,
+    trap_id: int | None,
+    old: dict[str, Any] | None,
+    new: dict[str, Any] | None,
+) -> dict[str, Any]:
+    """One audit entry's columns, with the actor and moment of its write (`shared`)."""
+    return {
+        **shared,
+        "action": action,
+        "record_type": record_type,
+        "record_id": record_id,
+        "site_id": site_id,
+        "trap_id": trap_id,
+        "old_values": old,
+        "new_values": new,
+    }
+
+
 def write_created_entries(
     session: Session, model: type[Any], rows: list[dict[str, Any]], site_id: int
 ) -> None:
@@ -143,16 +166,16 @@ def write_created_entries(
     ]
     shared = _who_and_when(session)
     entries = [
-        {
-            **shared,
-            "action": "created",
-            "record_type": AUDITED[model],
-            "record_id": row["id"],
-            "site_id": site_id,
-            "trap_id": row["id"] if model is Trap else row.get("trap_id"),
-            "old_values": None,
-            "new_values": {key: _plain(row[key]) for key in keys},
-        }
+        _entry(
+            shared,
+            "created",
+            AUDITED[model],
+            row["id"],
+            site_id,
+            row["id"] if model is Trap else row.get("trap_id"),
+            None,
+            {key: _plain(row[key]) for key in keys},
+        )
         for row in rows
     ]
     if entries:
@@ -190,16 +213,7 @@ def write_audit_entries(session: Session, _flush_context: Any) -> None:
             else getattr(record, "site_id", None) or trap_sites.get(trap_id or 0)
         )
         entries.append(
-            {
-                **shared,
-                "action": action,
-                "record_type": AUDITED[type(record)],
-                "record_id": record.id,
-                "site_id": site_id,
-                "trap_id": trap_id,
-                "old_values": old,
-                "new_values": new,
-            }
+            _entry(shared, action, AUDITED[type(record)], record.id, site_id, trap_id, old, new)
         )
     if entries:
         session.connection().execute(insert(AuditEntry), entries)

@@ -71,13 +71,6 @@ class Place:
     following: Stop | None
 
 
-def _in_segment(site_id: int, segment: Segment) -> Select[Trap]:
-    query = select(Trap).where(Trap.site_id == site_id, Trap.in_service.is_(True))
-    if segment.area_id is None:
-        return query.where(Trap.area_id.is_(None))
-    return query.where(Trap.area_id == segment.area_id)
-
-
 @dataclass(frozen=True, slots=True)
 class _Lane:
     """Traps of a segment with a route position (`placed`) or without, and their order."""
@@ -110,38 +103,6 @@ _Reading = tuple[Segment, _Lane, ColumnElement[bool] | None]
 
 def _lane_of(trap: Trap) -> int:
     return 0 if trap.route_position is not None else 1
-
-
-def _stops(session: Session, survey_id: int, traps: Sequence[Trap]) -> list[Stop]:
-    """The traps as stops, each with its latest finding in the round (one query)."""
-    if not traps:
-        return []
-    latest = {
-        trap_id: (finding_id, condition)
-        for trap_id, finding_id, condition in session.execute(
-            select(Trap.id, Finding.id, Finding.condition)
-            .join(Finding, is_latest_finding(survey_id=survey_id))
-            .where(Trap.id.in_([trap.id for trap in traps]))
-        )
-    }
-    area_names = dict(
-        session.execute(
-            select(Area.id, Area.name).where(
-                Area.id.in_({trap.area_id for trap in traps if trap.area_id is not None})
-            )
-        ).all()
-    )
-    return [
-        Stop(
-            trap_id=trap.id,
-            tag=trap.tag,
-            area_name=area_names.get(trap.area_id) if trap.area_id is not None else None,
-            location=trap.location,
-            finding_id=latest.get(trap.id, (None, None))[0],
-            condition=latest.get(trap.id, (None, None))[1],
-        )
-        for trap in traps
-    ]
 
 
 def _untested(survey_id: int) -> ColumnElement[bool]:
@@ -178,11 +139,36 @@ class RouteOf:
     def _chosen(self, area: str | None) -> list[Segment]:
         return [segment for segment in self.segments if area in (None, "", segment.label)]
 
-    def _in(self, segment: Segment) -> Select[Trap]:
-        return _in_segment(self.survey.site_id, segment)
-
     def _stops(self, traps: Sequence[Trap]) -> list[Stop]:
-        return _stops(self.session, self.survey.id, traps)
+        """The traps as stops, each with its latest finding in the round (one query)."""
+        if not traps:
+            return []
+        latest = {
+            trap_id: (finding_id, condition)
+            for trap_id, finding_id, condition in self.session.execute(
+                select(Trap.id, Finding.id, Finding.condition)
+                .join(Finding, is_latest_finding(survey_id=self.survey.id))
+                .where(Trap.id.in_([trap.id for trap in traps]))
+            )
+        }
+        area_names = dict(
+            self.session.execute(
+                select(Area.id, Area.name).where(
+                    Area.id.in_({trap.area_id for trap in traps if trap.area_id is not None})
+                )
+            ).all()
+        )
+        return [
+            Stop(
+                trap_id=trap.id,
+                tag=trap.tag,
+                area_name=area_names.get(trap.area_id) if trap.area_id is not None else None,
+                location=trap.location,
+                finding_id=latest.get(trap.id, (None, None))[0],
+                condition=latest.get(trap.id, (None, None))[1],
+            )
+            for trap in traps
+        ]
 
     def _not_accessible_ids(self, area: str | None) -> list[int]:
         """Traps in service whose latest finding in the round is "not accessible", in
@@ -215,8 +201,13 @@ class RouteOf:
     def _lane(
         self, segment: Segment, lane: _Lane, where: ColumnElement[bool] | None = None
     ) -> Select[Trap]:
-        """The lane's traps in its order (read from the index in that order)."""
-        query = self._in(segment).where(lane.where())
+        """The lane's traps in service in its order (read from the index in that order)."""
+        query = select(Trap).where(
+            Trap.site_id == self.survey.site_id,
+            Trap.in_service.is_(True),
+            Trap.area_id.is_(None) if segment.area_id is None else Trap.area_id == segment.area_id,
+            lane.where(),
+        )
         if where is not None:
             query = query.where(where)
         return query.order_by(*lane.key())
